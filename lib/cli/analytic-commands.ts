@@ -1,0 +1,3 @@
+import type { CliCommand } from "./command";
+
+export const analyticCommands: CliCommand[] = [];

@@ -1,0 +1,14 @@
+// `npm run bench`: prints timing figures. Speed targets live here, never in timed tests.
+import { runTeletrafficBench } from "./teletraffic.bench";
+import { runSimulationBench } from "./simulation.bench";
+
+async function main() {
+  console.log(`Spillway benchmarks: node ${process.version}, ${new Date().toISOString()}`);
+  await runTeletrafficBench();
+  await runSimulationBench();
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exitCode = 1;
+});
