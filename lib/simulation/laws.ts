@@ -1,0 +1,211 @@
+import type { BatchSizeLaw, Law } from "./scenario";
+import { lnGamma } from "./scenario";
+import type { Random } from "./random";
+
+/** Numeric law codes: the hot loop switches on these instead of calling closures. */
+export const LAW = {
+  exponential: 0,
+  deterministic: 1,
+  erlang: 2,
+  hyperexponential: 3,
+  lognormal: 4,
+  gamma: 5,
+  weibull: 6,
+  pareto: 7,
+  uniform: 8,
+  empirical: 9,
+} as const;
+
+/** Weibull shape k with the given coefficient of variation: cv^2 = G(1+2/k)/G(1+1/k)^2 - 1, decreasing in k. */
+export function weibullShapeForCv(cv: number): number {
+  const cvOf = (k: number) => Math.sqrt(Math.exp(lnGamma(1 + 2 / k) - 2 * lnGamma(1 + 1 / k)) - 1);
+  let lo = Math.log(0.02);
+  let hi = Math.log(200);
+  for (let i = 0; i < 200; i++) {
+    const mid = (lo + hi) / 2;
+    if (cvOf(Math.exp(mid)) > cv) lo = mid;
+    else hi = mid;
+  }
+  return Math.exp((lo + hi) / 2);
+}
+
+/** Balanced-means two-branch hyperexponential for a mean and squared coefficient of variation >= 1 (Whitt 1982). */
+export function balancedHyperexponential(mean: number, scv: number): { probabilities: number[]; means: number[] } {
+  const p = (1 + Math.sqrt((scv - 1) / (scv + 1))) / 2;
+  return { probabilities: [p, 1 - p], means: [mean / (2 * p), mean / (2 * (1 - p))] };
+}
+
+/** Precomputed sampler of one continuous law. */
+export class LawSampler {
+  readonly code: number;
+  readonly mean: number;
+  private a = 0;
+  private b = 0;
+  private k = 0;
+  private table: Float64Array = new Float64Array(0);
+  private values: Float64Array = new Float64Array(0);
+
+  constructor(law: Law) {
+    this.code = LAW[law.law];
+    switch (law.law) {
+      case "exponential":
+        this.a = law.mean;
+        this.mean = law.mean;
+        break;
+      case "deterministic":
+        this.a = law.value;
+        this.mean = law.value;
+        break;
+      case "erlang":
+        this.k = law.k;
+        this.a = law.mean / law.k;
+        this.mean = law.mean;
+        break;
+      case "hyperexponential": {
+        const branches = law.probabilities && law.means ? { probabilities: law.probabilities, means: law.means } : balancedHyperexponential(law.mean!, law.scv!);
+        this.table = cumulative(branches.probabilities);
+        this.values = Float64Array.from(branches.means);
+        this.mean = branches.probabilities.reduce((s, p, i) => s + p * branches.means[i], 0);
+        break;
+      }
+      case "lognormal": {
+        const s2 = Math.log(1 + law.cv * law.cv);
+        this.a = Math.log(law.mean) - s2 / 2;
+        this.b = Math.sqrt(s2);
+        this.mean = law.mean;
+        break;
+      }
+      case "gamma":
+        this.a = 1 / (law.cv * law.cv); // shape
+        this.b = law.mean * law.cv * law.cv; // scale
+        this.mean = law.mean;
+        break;
+      case "weibull": {
+        const shape = law.shape ?? weibullShapeForCv(law.cv!);
+        const scale = law.scale ?? law.mean! / Math.exp(lnGamma(1 + 1 / shape));
+        this.a = scale;
+        this.b = 1 / shape;
+        this.mean = scale * Math.exp(lnGamma(1 + 1 / shape));
+        break;
+      }
+      case "pareto":
+        this.a = (law.mean * (law.shape - 1)) / law.shape; // scale x_m
+        this.b = -1 / law.shape;
+        this.mean = law.mean;
+        break;
+      case "uniform":
+        this.a = law.min;
+        this.b = law.max - law.min;
+        this.mean = (law.min + law.max) / 2;
+        break;
+      case "empirical":
+        this.values = Float64Array.from(law.samples);
+        this.mean = law.samples.reduce((s, x) => s + x, 0) / law.samples.length;
+        break;
+    }
+  }
+
+  sample(rng: Random): number {
+    switch (this.code) {
+      case 0:
+        return -this.a * Math.log(rng.next());
+      case 1:
+        return this.a;
+      case 2: {
+        let product = 1;
+        let logSum = 0;
+        for (let i = 0; i < this.k; i++) {
+          product *= rng.next();
+          if (product < 1e-280) {
+            logSum += Math.log(product);
+            product = 1;
+          }
+        }
+        return -this.a * (logSum + Math.log(product));
+      }
+      case 3: {
+        const u = rng.next();
+        let i = 0;
+        while (i < this.table.length - 1 && u > this.table[i]) i++;
+        return -this.values[i] * Math.log(rng.next());
+      }
+      case 4:
+        return Math.exp(this.a + this.b * rng.normal());
+      case 5:
+        return this.b * rng.gamma(this.a);
+      case 6:
+        return this.a * Math.pow(-Math.log(rng.next()), this.b);
+      case 7:
+        return this.a * Math.pow(rng.next(), this.b);
+      case 8:
+        return this.a + this.b * rng.next();
+      default:
+        return this.values[Math.floor(rng.next() * this.values.length)];
+    }
+  }
+}
+
+function cumulative(probabilities: number[]): Float64Array {
+  const table = new Float64Array(probabilities.length);
+  let s = 0;
+  probabilities.forEach((p, i) => {
+    s += p;
+    table[i] = s;
+  });
+  table[table.length - 1] = 1;
+  return table;
+}
+
+/** Sampler of a batch-size law on {1, 2, ...}. */
+export class BatchSizeSampler {
+  readonly mean: number;
+  private code: number;
+  private a = 0;
+  private b = 0;
+  private table: Float64Array = new Float64Array(0);
+  private values: Int32Array = new Int32Array(0);
+
+  constructor(law: BatchSizeLaw) {
+    switch (law.law) {
+      case "geometric":
+        this.code = 0;
+        this.a = law.mean > 1 ? 1 / Math.log(1 - 1 / law.mean) : 0; // P(K = k) = (1-p)^(k-1) p, p = 1/mean
+        this.mean = law.mean;
+        break;
+      case "fixed":
+        this.code = 1;
+        this.a = law.value;
+        this.mean = law.value;
+        break;
+      case "uniform":
+        this.code = 2;
+        this.a = law.min;
+        this.b = law.max - law.min + 1;
+        this.mean = (law.min + law.max) / 2;
+        break;
+      case "empirical":
+        this.code = 3;
+        this.table = cumulative(law.probabilities);
+        this.values = Int32Array.from(law.values);
+        this.mean = law.values.reduce((s, v, i) => s + v * law.probabilities[i], 0);
+        break;
+    }
+  }
+
+  sample(rng: Random): number {
+    switch (this.code) {
+      case 0:
+        return this.a === 0 ? 1 : 1 + Math.floor(Math.log(rng.next()) * this.a);
+      case 1:
+        return this.a;
+      case 2:
+        return this.a + Math.floor(rng.next() * this.b);
+      default: {
+        const u = rng.next();
+        let i = 0;
+        while (i < this.table.length - 1 && u > this.table[i]) i++;
+        return this.values[i];
+      }
+    }
+  }
+}

@@ -1,0 +1,108 @@
+import { z } from "zod";
+import type { ReplicationStats } from "./engine";
+import { ratioInterval, type Interval } from "./estimators";
+import { referencesFor, referenceSchema, offeredTraffic } from "./references";
+import type { Scenario } from "./scenario";
+
+const intervalSchema = z.object({
+  estimate: z.number(),
+  standardError: z.number(),
+  halfWidth: z.number(),
+  ciLow: z.number(),
+  ciHigh: z.number(),
+});
+
+/** What `simulate --json` prints and the worker stores. NaN never appears: JSON has none, so undefined measures are null. */
+export const simulationResultSchema = z.object({
+  seed: z.number().int(),
+  confidence: z.number(),
+  replications: z.number().int(),
+  /** Fresh calls measured, summed over replications. */
+  calls: z.number(),
+  /** Events processed, warm-up included. */
+  events: z.number(),
+  /** Mean offered traffic at the group under study before retrials (erlangs); for overflow, the primaries' total. */
+  offeredTraffic: z.number(),
+  callCongestion: intervalSchema,
+  timeCongestion: intervalSchema,
+  carriedTraffic: intervalSchema,
+  /** With retrials: */
+  firstAttemptBlocking: intervalSchema.optional(),
+  lossProbability: intervalSchema.optional(),
+  attemptsPerCall: intervalSchema.optional(),
+  /** Share of all attempts (fresh and repeated) that are refused. */
+  attemptCongestion: intervalSchema.optional(),
+  /** Time-average number of calls waiting to retry. */
+  meanRetrying: intervalSchema.optional(),
+  /** With waiting positions: */
+  waitingProbability: intervalSchema.optional(),
+  meanWait: intervalSchema.optional(),
+  meanWaiting: intervalSchema.optional(),
+  abandonmentProbability: intervalSchema.optional(),
+  /** Time fraction at each busy count 0..servers, pooled over replications. */
+  occupancy: z.array(z.number()),
+  /** Fresh calls discarded per replication as warm-up (MSER-5 when "auto"): mean, min, max. */
+  warmupCalls: z.object({ mean: z.number(), min: z.number(), max: z.number() }),
+  references: z.array(referenceSchema),
+});
+export type SimulationResult = z.infer<typeof simulationResultSchema>;
+
+function interval(y: number[], x: number[], confidence: number): Interval {
+  const ci = ratioInterval(y, x, confidence);
+  // One replication or zero denominators leave no interval; report a zero-width one at the point.
+  const clean = (v: number, fallback: number) => (Number.isFinite(v) ? v : fallback);
+  const estimate = clean(ci.estimate, 0);
+  return {
+    estimate,
+    standardError: clean(ci.standardError, 0),
+    halfWidth: clean(ci.halfWidth, 0),
+    ciLow: clean(ci.ciLow, estimate),
+    ciHigh: clean(ci.ciHigh, estimate),
+  };
+}
+
+/** Combines replications (in index order) into the stored result. */
+export function buildResult(scenario: Scenario, stats: ReplicationStats[]): SimulationResult {
+  const c = scenario.run.confidence;
+  const col = (f: (s: ReplicationStats) => number) => stats.map(f);
+  const calls = col((s) => s.calls);
+  const time = col((s) => s.time);
+  const admitted = col((s) => s.admitted);
+  const servers = scenario.servers;
+  const occupancy = new Array<number>(servers + 1).fill(0);
+  let totalTime = 0;
+  for (const s of stats) {
+    for (let k = 0; k <= servers; k++) occupancy[k] += s.occupancy[k];
+    totalTime += s.time;
+  }
+  const warmups = col((s) => s.warmupCalls);
+  const result: SimulationResult = {
+    seed: scenario.run.seed,
+    confidence: c,
+    replications: stats.length,
+    calls: calls.reduce((a, b) => a + b, 0),
+    events: col((s) => s.events).reduce((a, b) => a + b, 0),
+    offeredTraffic: offeredTraffic(scenario),
+    callCongestion: interval(col((s) => s.blockedFirst), calls, c),
+    timeCongestion: interval(col((s) => s.occupancy[servers]), time, c),
+    carriedTraffic: interval(col((s) => s.busyIntegral), time, c),
+    occupancy: occupancy.map((v) => (totalTime > 0 ? v / totalTime : 0)),
+    warmupCalls: { mean: warmups.reduce((a, b) => a + b, 0) / warmups.length, min: Math.min(...warmups), max: Math.max(...warmups) },
+    references: referencesFor(scenario),
+  };
+  if (scenario.retrials) {
+    result.firstAttemptBlocking = result.callCongestion;
+    result.lossProbability = interval(col((s) => s.lost), calls, c);
+    result.attemptsPerCall = interval(col((s) => s.attempts), calls, c);
+    result.attemptCongestion = interval(col((s) => s.blockedAttempts), col((s) => s.attempts), c);
+    result.meanRetrying = interval(col((s) => s.orbitIntegral), time, c);
+  }
+  if (scenario.waitingPositions > 0) {
+    result.lossProbability ??= interval(col((s) => s.lost), calls, c);
+    result.waitingProbability = interval(col((s) => s.waited), admitted, c);
+    result.meanWait = interval(col((s) => s.waitSum), admitted, c);
+    result.meanWaiting = interval(col((s) => s.queueIntegral), time, c);
+    result.abandonmentProbability = interval(col((s) => s.abandoned), admitted, c);
+  }
+  return result;
+}

@@ -1,0 +1,284 @@
+import { Worker } from "node:worker_threads";
+import { Replication, type ReplicationStats } from "./engine";
+import { mser5, ratioInterval } from "./estimators";
+import { buildResult, type SimulationResult } from "./result";
+import { LIMITS, type Scenario, lawMean } from "./scenario";
+
+/** Events per slice between progress reports and cancellation checks (~10-30 ms of work). */
+export const SLICE_EVENTS = 1 << 18;
+
+/** Raw observations per replication for MSER-5 (in batches of 5: 1000 batch means). */
+const MSER_OBSERVATIONS = 5000;
+
+/** A run stopped through its AbortSignal. */
+export class SimulationCancelledError extends Error {
+  readonly kind = "cancelled" as const;
+  constructor(message = "simulation cancelled") {
+    super(message);
+    this.name = "SimulationCancelledError";
+  }
+}
+
+/** Rough rate of fresh calls, only to space the MSER-5 trace in horizon runs. */
+function approximateCallRate(scenario: Scenario): number {
+  const a = scenario.arrivals;
+  switch (a.process) {
+    case "poisson":
+      return a.rate;
+    case "batch":
+      return a.rate * 2;
+    case "mmpp":
+      return Math.max(...a.rates);
+    case "on-off":
+      return a.onRate;
+    case "renewal":
+      return 1 / lawMean(a.interarrival);
+    case "overflow":
+      return a.primaries.reduce((s, p) => s + p.traffic, 0) / lawMean(scenario.holding);
+    case "finite-source":
+      return a.sources * a.idleRate;
+    case "time-varying":
+      return Math.max(...a.profile.map((s) => s.rate));
+  }
+}
+
+/**
+ * One replication including, for `warmup: "auto"`, an MSER-5 pilot: the pilot runs the same
+ * random streams without warm-up and records the time-average number of busy servers over
+ * consecutive groups of fresh calls; MSER-5 picks the truncation point, and the replication is
+ * run again discarding that many fresh calls (same streams, so the same trajectory).
+ */
+export class ReplicationJob {
+  private current: Replication;
+  private pilot: boolean;
+  private readonly traceEvery: number;
+
+  constructor(
+    private readonly scenario: Scenario,
+    readonly index: number,
+  ) {
+    this.pilot = scenario.run.warmup === "auto";
+    const expectedCalls = scenario.run.callsPerReplication ?? (scenario.run.horizon ?? 0) * approximateCallRate(scenario);
+    this.traceEvery = Math.max(1, Math.floor(expectedCalls / MSER_OBSERVATIONS));
+    this.current = new Replication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {});
+  }
+
+  advance(maxEvents: number): boolean {
+    if (!this.current.advance(maxEvents)) return false;
+    if (!this.pilot) return true;
+    const { traceTime, traceBusy } = this.current;
+    const observations: number[] = [];
+    for (let i = 1; i < traceTime.length; i++) {
+      const dt = traceTime[i] - traceTime[i - 1];
+      observations.push(dt > 0 ? (traceBusy[i] - traceBusy[i - 1]) / dt : 0);
+    }
+    const discard = mser5(observations);
+    this.pilot = false;
+    this.current = new Replication(this.scenario, this.index, { warmupCalls: discard * this.traceEvery });
+    return false;
+  }
+
+  progress(): number {
+    const p = this.current.progress();
+    return this.scenario.run.warmup === "auto" ? (this.pilot ? p / 2 : 0.5 + p / 2) : p;
+  }
+
+  stats(): ReplicationStats {
+    return this.current.stats();
+  }
+}
+
+/** The pure part: one replication, run to the end, depending only on (scenario, index). */
+export function runReplication(scenario: Scenario, index: number): ReplicationStats {
+  const job = new ReplicationJob(scenario, index);
+  while (!job.advance(Number.MAX_SAFE_INTEGER));
+  return job.stats();
+}
+
+export interface RunOptions {
+  /** Worker threads running replications in parallel; results do not depend on it. */
+  threads?: number;
+  /** Fraction of the planned work done, non-decreasing, ending at exactly 1. */
+  onProgress?: (fraction: number) => void;
+  signal?: AbortSignal;
+}
+
+type Runner = (indices: number[], progress: (index: number, fraction: number) => void) => Promise<ReplicationStats[]>;
+
+function relativeHalfWidth(stats: ReplicationStats[], confidence: number): number {
+  const ci = ratioInterval(
+    stats.map((s) => s.blockedFirst),
+    stats.map((s) => s.calls),
+    confidence,
+  );
+  return ci.estimate > 0 ? ci.halfWidth / ci.estimate : Infinity;
+}
+
+/**
+ * Runs all replications (plus those a precision target asks for) and builds the result.
+ * Replications are combined in index order and the stopping rule is evaluated replication by
+ * replication in that order, so the result is bit-identical for any number of threads.
+ */
+export async function runScenario(scenario: Scenario, options: RunOptions = {}): Promise<SimulationResult> {
+  const threads = Math.max(1, Math.floor(options.threads ?? 1));
+  const signal = options.signal;
+  if (signal?.aborted) throw new SimulationCancelledError();
+  const pool = threads > 1 ? new WorkerPool(scenario, threads, signal) : undefined;
+  const runner: Runner = pool ? (indices, progress) => pool.run(indices, progress) : (indices, progress) => runInThisThread(scenario, indices, progress, signal);
+  try {
+    const run = scenario.run;
+    const initial = run.replications;
+    let planned = initial;
+    let reported = 0;
+    const done = new Map<number, number>();
+    const report = (index: number, fraction: number) => {
+      if (!options.onProgress) return;
+      done.set(index, fraction);
+      let sum = 0;
+      for (const f of done.values()) sum += f;
+      const value = Math.min(0.999999, sum / planned);
+      if (value > reported) {
+        reported = value;
+        options.onProgress(value);
+      }
+    };
+    const results = await runner(
+      Array.from({ length: initial }, (_, i) => i),
+      report,
+    );
+    const precision = run.precision;
+    if (precision) {
+      let calls = results.reduce((s, r) => s + r.calls, 0);
+      const wave = Math.max(1, threads);
+      let met = relativeHalfWidth(results, run.confidence) <= precision.relativeHalfWidth;
+      while (!met && results.length < LIMITS.replications) {
+        const perReplication = calls / results.length;
+        const affordable = Math.floor((precision.maxCalls - calls) / Math.max(1, perReplication));
+        const count = Math.min(wave, affordable, LIMITS.replications - results.length);
+        if (count <= 0) break;
+        const start = results.length;
+        planned = start + count;
+        const extra = await runner(
+          Array.from({ length: count }, (_, i) => start + i),
+          report,
+        );
+        for (const r of extra) {
+          results.push(r);
+          calls += r.calls;
+          if (relativeHalfWidth(results, run.confidence) <= precision.relativeHalfWidth) {
+            met = true;
+            break;
+          }
+        }
+      }
+    }
+    const result = buildResult(scenario, results);
+    options.onProgress?.(1);
+    return result;
+  } finally {
+    await pool?.close();
+  }
+}
+
+async function runInThisThread(
+  scenario: Scenario,
+  indices: number[],
+  progress: (index: number, fraction: number) => void,
+  signal?: AbortSignal,
+): Promise<ReplicationStats[]> {
+  const out: ReplicationStats[] = [];
+  for (const index of indices) {
+    const job = new ReplicationJob(scenario, index);
+    for (;;) {
+      const finished = job.advance(SLICE_EVENTS);
+      progress(index, finished ? 1 : job.progress());
+      if (finished) break;
+      // Yield so an abort() from a timer or a message can be seen.
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      if (signal?.aborted) throw new SimulationCancelledError();
+    }
+    out.push(job.stats());
+    if (signal?.aborted) throw new SimulationCancelledError();
+  }
+  return out;
+}
+
+/** Where the worker entry lives; it is TypeScript, loaded through tsx in the worker. */
+function workerUrl(): URL {
+  return new URL("./replication-worker.ts", `file://${__dirname}/`);
+}
+
+type WorkerMessage = { type: "progress"; index: number; fraction: number } | { type: "done"; index: number; stats: ReplicationStats } | { type: "error"; message: string };
+
+class WorkerPool {
+  private readonly workers: Worker[] = [];
+  private failed?: Error;
+
+  constructor(
+    private readonly scenario: Scenario,
+    threads: number,
+    private readonly signal?: AbortSignal,
+  ) {
+    for (let i = 0; i < threads; i++) {
+      this.workers.push(new Worker(workerUrl(), { workerData: { scenario }, execArgv: ["--import", "tsx"] }));
+    }
+  }
+
+  run(indices: number[], progress: (index: number, fraction: number) => void): Promise<ReplicationStats[]> {
+    return new Promise((resolve, reject) => {
+      const results = new Map<number, ReplicationStats>();
+      let next = 0;
+      let settled = false;
+      const cleanups: Array<() => void> = [];
+      const finish = (error?: Error) => {
+        if (settled) return;
+        settled = true;
+        for (const c of cleanups) c();
+        if (error) {
+          this.failed = error;
+          reject(error);
+        } else resolve(indices.map((i) => results.get(i)!));
+      };
+      const onAbort = () => finish(new SimulationCancelledError());
+      if (this.signal) {
+        if (this.signal.aborted) return onAbort();
+        this.signal.addEventListener("abort", onAbort, { once: true });
+        cleanups.push(() => this.signal!.removeEventListener("abort", onAbort));
+      }
+      const feed = (worker: Worker) => {
+        if (next < indices.length) worker.postMessage({ type: "run", index: indices[next++] });
+      };
+      for (const worker of this.workers) {
+        const onMessage = (message: WorkerMessage) => {
+          if (message.type === "progress") progress(message.index, message.fraction);
+          else if (message.type === "error") finish(new Error(message.message));
+          else {
+            results.set(message.index, message.stats);
+            progress(message.index, 1);
+            if (results.size === indices.length) finish();
+            else feed(worker);
+          }
+        };
+        const onError = (error: Error) => finish(error);
+        const onExit = (code: number) => {
+          if (!settled) finish(new Error(`replication worker exited with code ${code}`));
+        };
+        worker.on("message", onMessage);
+        worker.on("error", onError);
+        worker.on("exit", onExit);
+        cleanups.push(() => {
+          worker.off("message", onMessage);
+          worker.off("error", onError);
+          worker.off("exit", onExit);
+        });
+        feed(worker);
+      }
+    });
+  }
+
+  async close(): Promise<void> {
+    // Terminating also stops a replication in progress: that is how cancellation is prompt.
+    await Promise.all(this.workers.map((w) => w.terminate()));
+    void this.failed;
+  }
+}

@@ -1,0 +1,349 @@
+import { z } from "zod";
+import gammaln from "@stdlib/math-base-special-gammaln";
+
+/**
+ * The scenario file shared by UI, API, CLI and worker. Rates and means are in one time
+ * unit of the user's choice; offered traffic in erlangs = arrival rate x mean holding time.
+ *
+ * Upper bounds keep one run within what a browser-started job can finish; they are
+ * product limits (common practice, no source), not properties of the methods.
+ */
+export const LIMITS = {
+  servers: 100_000,
+  waitingPositions: 100_000,
+  phases: 16,
+  primaries: 32,
+  profileSegments: 1_000,
+  empiricalValues: 1_000_000,
+  replications: 10_000,
+  callsPerReplication: 100_000_000,
+  totalCalls: 2_000_000_000,
+  maxAttempts: 1_000,
+  batchSize: 10_000,
+  sources: 1_000_000,
+} as const;
+
+const positive = (what = "must be > 0") => z.number().gt(0, what).finite();
+const nonNegative = () => z.number().min(0, "must be >= 0").finite();
+const positiveInt = (max: number) => z.number().int("must be an integer").min(1, "must be >= 1").max(max, `must be <= ${max}`);
+const probability = () => z.number().min(0, "must be >= 0").max(1, "must be <= 1");
+
+function sumsToOne(values: number[], ctx: z.RefinementCtx, path: (string | number)[]) {
+  const total = values.reduce((a, b) => a + b, 0);
+  if (Math.abs(total - 1) > 1e-9) ctx.addIssue({ code: "custom", path, message: `must sum to 1 (sum is ${total})` });
+}
+
+/** Continuous laws: holding times, interarrival times, retry delays, patience. */
+export const lawSchema = z.discriminatedUnion("law", [
+  z.strictObject({ law: z.literal("exponential"), mean: positive() }),
+  z.strictObject({ law: z.literal("deterministic"), value: positive() }),
+  z.strictObject({ law: z.literal("erlang"), k: positiveInt(1_000), mean: positive() }),
+  z
+    .strictObject({
+      law: z.literal("hyperexponential"),
+      mean: positive().optional(),
+      scv: z.number().finite().min(1, "must be >= 1 (a hyperexponential law is at least as variable as the exponential)").optional(),
+      probabilities: z.array(probability()).min(2, "needs at least 2 branches").max(16, "at most 16 branches").optional(),
+      means: z.array(positive()).min(2, "needs at least 2 branches").max(16, "at most 16 branches").optional(),
+    })
+    .superRefine((v, ctx) => {
+      const balanced = v.mean !== undefined || v.scv !== undefined;
+      const branches = v.probabilities !== undefined || v.means !== undefined;
+      if (balanced === branches) {
+        ctx.addIssue({ code: "custom", path: [], message: "give either {mean, scv} or {probabilities, means}" });
+        return;
+      }
+      if (balanced) {
+        if (v.mean === undefined) ctx.addIssue({ code: "custom", path: ["mean"], message: "required with scv" });
+        if (v.scv === undefined) ctx.addIssue({ code: "custom", path: ["scv"], message: "required with mean" });
+        return;
+      }
+      if (!v.probabilities) return ctx.addIssue({ code: "custom", path: ["probabilities"], message: "required with means" });
+      if (!v.means) return ctx.addIssue({ code: "custom", path: ["means"], message: "required with probabilities" });
+      if (v.probabilities.length !== v.means.length)
+        ctx.addIssue({ code: "custom", path: ["means"], message: `must have as many entries as probabilities (${v.probabilities.length})` });
+      sumsToOne(v.probabilities, ctx, ["probabilities"]);
+    }),
+  z.strictObject({ law: z.literal("lognormal"), mean: positive(), cv: positive() }),
+  z.strictObject({ law: z.literal("gamma"), mean: positive(), cv: positive() }),
+  z
+    .strictObject({
+      law: z.literal("weibull"),
+      mean: positive().optional(),
+      cv: z.number().finite().gt(0.01, "must be > 0.01").lt(50, "must be < 50").optional(),
+      shape: z.number().finite().gt(0.05, "must be > 0.05").lt(100, "must be < 100").optional(),
+      scale: positive().optional(),
+    })
+    .superRefine((v, ctx) => {
+      const byMoments = v.mean !== undefined || v.cv !== undefined;
+      const byParameters = v.shape !== undefined || v.scale !== undefined;
+      if (byMoments === byParameters) return ctx.addIssue({ code: "custom", path: [], message: "give either {mean, cv} or {shape, scale}" });
+      const pairs: Array<[keyof typeof v, keyof typeof v]> = byMoments ? [["mean", "cv"], ["cv", "mean"]] : [["shape", "scale"], ["scale", "shape"]];
+      for (const [field, other] of pairs) if (v[field] === undefined) ctx.addIssue({ code: "custom", path: [field], message: `required with ${other}` });
+    }),
+  z.strictObject({ law: z.literal("pareto"), mean: positive(), shape: z.number().finite().gt(1, "must be > 1 (the mean is infinite otherwise)") }),
+  z
+    .strictObject({ law: z.literal("uniform"), min: nonNegative(), max: positive() })
+    .superRefine((v, ctx) => {
+      if (v.max <= v.min) ctx.addIssue({ code: "custom", path: ["max"], message: "must be > min" });
+    }),
+  z.strictObject({
+    law: z.literal("empirical"),
+    samples: z
+      .array(nonNegative())
+      .min(1, "needs at least 1 sample")
+      .max(LIMITS.empiricalValues, `at most ${LIMITS.empiricalValues} samples`)
+      .refine((s) => s.some((x) => x > 0), "must contain a value > 0"),
+  }),
+]);
+export type Law = z.infer<typeof lawSchema>;
+
+/** Discrete laws on {1, 2, ...} for batch sizes. */
+export const batchSizeSchema = z.discriminatedUnion("law", [
+  z.strictObject({ law: z.literal("geometric"), mean: z.number().finite().min(1, "must be >= 1").max(LIMITS.batchSize, `must be <= ${LIMITS.batchSize}`) }),
+  z.strictObject({ law: z.literal("fixed"), value: positiveInt(LIMITS.batchSize) }),
+  z
+    .strictObject({ law: z.literal("uniform"), min: positiveInt(LIMITS.batchSize), max: positiveInt(LIMITS.batchSize) })
+    .superRefine((v, ctx) => {
+      if (v.max < v.min) ctx.addIssue({ code: "custom", path: ["max"], message: "must be >= min" });
+    }),
+  z
+    .strictObject({
+      law: z.literal("empirical"),
+      values: z.array(positiveInt(LIMITS.batchSize)).min(1, "needs at least 1 value").max(LIMITS.batchSize, `at most ${LIMITS.batchSize} values`),
+      probabilities: z.array(probability()).min(1, "needs at least 1 probability"),
+    })
+    .superRefine((v, ctx) => {
+      if (v.values.length !== v.probabilities.length)
+        ctx.addIssue({ code: "custom", path: ["probabilities"], message: `must have as many entries as values (${v.values.length})` });
+      sumsToOne(v.probabilities, ctx, ["probabilities"]);
+    }),
+]);
+export type BatchSizeLaw = z.infer<typeof batchSizeSchema>;
+
+const rateMatrix = z.array(z.array(nonNegative()));
+
+export const arrivalsSchema = z.discriminatedUnion("process", [
+  z.strictObject({ process: z.literal("poisson"), rate: positive() }),
+  z
+    .strictObject({
+      process: z.literal("mmpp"),
+      rates: z.array(nonNegative()).min(1, "needs at least 1 phase").max(LIMITS.phases, `at most ${LIMITS.phases} phases`),
+      switching: rateMatrix,
+    })
+    .superRefine((v, ctx) => {
+      const k = v.rates.length;
+      if (!v.rates.some((r) => r > 0)) ctx.addIssue({ code: "custom", path: ["rates"], message: "at least one phase needs a rate > 0" });
+      if (v.switching.length !== k) return ctx.addIssue({ code: "custom", path: ["switching"], message: `must be a ${k}x${k} matrix (one row per rate)` });
+      v.switching.forEach((row, i) => {
+        if (row.length !== k) ctx.addIssue({ code: "custom", path: ["switching", i], message: `must have ${k} entries` });
+      });
+      if (k > 1 && !phasesCommunicate(v.switching))
+        ctx.addIssue({ code: "custom", path: ["switching"], message: "every phase must be reachable from every other (irreducible chain)" });
+    }),
+  z.strictObject({ process: z.literal("on-off"), onRate: positive(), meanOn: positive(), meanOff: positive() }),
+  z.strictObject({ process: z.literal("renewal"), interarrival: lawSchema }),
+  z.strictObject({
+    process: z.literal("batch"),
+    rate: positive(),
+    batchSize: batchSizeSchema,
+    admission: z.enum(["partial", "all-or-nothing"]).default("partial"),
+  }),
+  z.strictObject({
+    process: z.literal("overflow"),
+    primaries: z
+      .array(
+        z.strictObject({
+          traffic: positive(),
+          servers: z.number().int("must be an integer").min(0, "must be >= 0").max(LIMITS.servers, `must be <= ${LIMITS.servers}`),
+        }),
+      )
+      .min(1, "needs at least 1 primary group")
+      .max(LIMITS.primaries, `at most ${LIMITS.primaries} primary groups`),
+  }),
+  z.strictObject({
+    process: z.literal("finite-source"),
+    sources: positiveInt(LIMITS.sources),
+    idleRate: positive(),
+  }),
+  z
+    .strictObject({
+      process: z.literal("time-varying"),
+      profile: z
+        .array(z.strictObject({ duration: positive(), rate: nonNegative() }))
+        .min(1, "needs at least 1 segment")
+        .max(LIMITS.profileSegments, `at most ${LIMITS.profileSegments} segments`),
+    })
+    .superRefine((v, ctx) => {
+      if (!v.profile.some((s) => s.rate > 0)) ctx.addIssue({ code: "custom", path: ["profile"], message: "at least one segment needs a rate > 0" });
+    }),
+]);
+export type Arrivals = z.infer<typeof arrivalsSchema>;
+
+function phasesCommunicate(switching: number[][]): boolean {
+  const k = switching.length;
+  const reach = (forward: boolean) => {
+    const seen = new Array<boolean>(k).fill(false);
+    const stack = [0];
+    seen[0] = true;
+    while (stack.length) {
+      const i = stack.pop()!;
+      for (let j = 0; j < k; j++) {
+        const rate = forward ? switching[i][j] : switching[j][i];
+        if (j !== i && rate > 0 && !seen[j]) {
+          seen[j] = true;
+          stack.push(j);
+        }
+      }
+    }
+    return seen.every(Boolean);
+  };
+  return reach(true) && reach(false);
+}
+
+export const retrialsSchema = z.strictObject({
+  persistence: probability(),
+  delay: lawSchema,
+  maxAttempts: positiveInt(LIMITS.maxAttempts).optional(),
+});
+
+export const runSchema = z
+  .strictObject({
+    seed: z.number().int("must be an integer").min(0, "must be >= 0").max(Number.MAX_SAFE_INTEGER, "must be a safe integer"),
+    replications: z.number().int("must be an integer").min(2, "must be >= 2 (a confidence interval needs two)").max(LIMITS.replications, `must be <= ${LIMITS.replications}`),
+    callsPerReplication: positiveInt(LIMITS.callsPerReplication).optional(),
+    horizon: positive().optional(),
+    warmupCalls: z.number().int("must be an integer").min(0, "must be >= 0").max(LIMITS.callsPerReplication, `must be <= ${LIMITS.callsPerReplication}`).optional(),
+    warmupTime: nonNegative().optional(),
+    warmup: z.literal("auto").optional(),
+    confidence: z.number().gt(0.5, "must be > 0.5").lt(1, "must be < 1").default(0.95),
+    precision: z
+      .strictObject({
+        relativeHalfWidth: z.number().gt(0, "must be > 0").lt(1, "must be < 1"),
+        maxCalls: positiveInt(LIMITS.totalCalls),
+      })
+      .optional(),
+  })
+  .superRefine((v, ctx) => {
+    if ((v.callsPerReplication === undefined) === (v.horizon === undefined))
+      ctx.addIssue({ code: "custom", path: ["callsPerReplication"], message: "give exactly one of callsPerReplication or horizon" });
+    const warmups = [v.warmupCalls, v.warmupTime, v.warmup].filter((w) => w !== undefined).length;
+    if (warmups > 1) ctx.addIssue({ code: "custom", path: ["warmupCalls"], message: "give at most one of warmupCalls, warmupTime, warmup" });
+    if (v.callsPerReplication !== undefined && v.callsPerReplication * v.replications > LIMITS.totalCalls)
+      ctx.addIssue({ code: "custom", path: ["callsPerReplication"], message: `replications x callsPerReplication must be <= ${LIMITS.totalCalls}` });
+  });
+
+export const scenarioSchema = z
+  .strictObject({
+    servers: z.number().int("must be an integer").min(1, "must be >= 1").max(LIMITS.servers, `must be <= ${LIMITS.servers}`),
+    waitingPositions: z.number().int("must be an integer").min(0, "must be >= 0").max(LIMITS.waitingPositions, `must be <= ${LIMITS.waitingPositions}`).default(0),
+    patience: lawSchema.optional(),
+    arrivals: arrivalsSchema,
+    holding: lawSchema,
+    retrials: retrialsSchema.optional(),
+    run: runSchema,
+  })
+  .superRefine((v, ctx) => {
+    if (v.patience && v.waitingPositions === 0)
+      ctx.addIssue({ code: "custom", path: ["patience"], message: "needs waitingPositions > 0" });
+    if (v.arrivals.process === "batch" && v.arrivals.admission === "all-or-nothing" && v.arrivals.batchSize.law === "fixed" && v.arrivals.batchSize.value > v.servers + v.waitingPositions)
+      ctx.addIssue({ code: "custom", path: ["arrivals", "batchSize", "value"], message: "a batch larger than servers + waitingPositions is always refused" });
+  });
+
+export type Scenario = z.infer<typeof scenarioSchema>;
+export type ScenarioInput = z.input<typeof scenarioSchema>;
+
+/** Invalid scenario: the caller's fault (CLI exit 2, API 400). */
+export class ScenarioError extends Error {
+  readonly kind = "input" as const;
+  constructor(
+    message: string,
+    readonly path: string = "",
+  ) {
+    super(message);
+    this.name = "ScenarioError";
+  }
+}
+
+/** `arrivals.switching[1][0]` style. */
+export function formatPath(path: readonly PropertyKey[]): string {
+  let out = "";
+  for (const part of path) out += typeof part === "number" ? `[${part}]` : out ? `.${String(part)}` : String(part);
+  return out || "scenario";
+}
+
+function typeName(value: unknown): string {
+  if (value === null) return "null";
+  if (Array.isArray(value)) return "array";
+  return typeof value;
+}
+
+const shortMessages: z.core.$ZodErrorMap = (issue) => {
+  switch (issue.code) {
+    case "invalid_type":
+      return issue.input === undefined ? "required" : `expected ${issue.expected}, got ${typeName(issue.input)}`;
+    case "too_small":
+      return issue.origin === "array" ? `needs at least ${issue.minimum} entries` : `must be ${issue.inclusive ? ">=" : ">"} ${issue.minimum}`;
+    case "too_big":
+      return issue.origin === "array" ? `at most ${issue.maximum} entries` : `must be ${issue.inclusive ? "<=" : "<"} ${issue.maximum}`;
+    case "unrecognized_keys":
+      return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => `"${k}"`).join(", ")}`;
+    case "invalid_union":
+      if (issue.discriminator) return `${issue.discriminator} must be one of ${(issue.options ?? []).map((o) => `"${String(o)}"`).join(", ")}`;
+      return undefined;
+    case "invalid_value":
+      return `must be one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}`;
+    default:
+      return undefined;
+  }
+};
+
+/** Validates and fills defaults; throws ScenarioError with a one-line message naming the field. */
+export function parseScenario(json: unknown): Scenario {
+  const result = scenarioSchema.safeParse(json, { error: shortMessages });
+  if (result.success) return result.data;
+  const issue = result.error.issues[0];
+  // A discriminated union reports at the object; name the discriminator field itself.
+  let path = [...issue.path];
+  if (issue.code === "invalid_union" && issue.discriminator) path = [...path, issue.discriminator];
+  const where = formatPath(path);
+  const more = result.error.issues.length > 1 ? ` (and ${result.error.issues.length - 1} more)` : "";
+  throw new ScenarioError(`${where}: ${issue.message}${more}`, where);
+}
+
+/** Mean offered traffic in erlangs at the group under study's entry, before retrials. */
+export function lawMean(law: Law): number {
+  switch (law.law) {
+    case "exponential":
+    case "erlang":
+    case "lognormal":
+    case "gamma":
+    case "pareto":
+      return law.mean;
+    case "deterministic":
+      return law.value;
+    case "hyperexponential":
+      return law.mean ?? law.probabilities!.reduce((s, p, i) => s + p * law.means![i], 0);
+    case "weibull":
+      return law.mean ?? law.scale! * Math.exp(lnGamma(1 + 1 / law.shape!));
+    case "uniform":
+      return (law.min + law.max) / 2;
+    case "empirical":
+      return law.samples.reduce((a, b) => a + b, 0) / law.samples.length;
+  }
+}
+
+export function batchMean(law: BatchSizeLaw): number {
+  switch (law.law) {
+    case "geometric":
+      return law.mean;
+    case "fixed":
+      return law.value;
+    case "uniform":
+      return (law.min + law.max) / 2;
+    case "empirical":
+      return law.values.reduce((s, v, i) => s + v * law.probabilities[i], 0);
+  }
+}
+
+export const lnGamma: (x: number) => number = gammaln;

@@ -1,0 +1,351 @@
+import { z } from "zod";
+import { assertFiniteResult, inputError, parseInput } from "./errors";
+import { lnGamma } from "./numeric";
+import { solveBracketed } from "./solve";
+
+/** Largest group (integer or real) the O(N) recursion is allowed to walk. */
+export const MAX_SERVERS = 10_000_000;
+export const MAX_TRAFFIC = 10_000_000;
+/** Largest group for which the full state distribution is returned. */
+export const MAX_DISTRIBUTION_SERVERS = 1_000_000;
+
+export const serversField = z
+  .number()
+  .min(0)
+  .max(MAX_SERVERS)
+  .describe(`number of servers N (real N >= 0 allowed, via the incomplete-gamma continuation; at most ${MAX_SERVERS})`);
+export const trafficField = z
+  .number()
+  .min(0)
+  .max(MAX_TRAFFIC)
+  .describe(`offered traffic A in erlangs (0 <= A <= ${MAX_TRAFFIC})`);
+export const targetField = z
+  .number()
+  .gt(0)
+  .lt(1)
+  .describe("target blocking probability (grade of service), strictly between 0 and 1");
+
+export const erlangBInputSchema = z
+  .object({ servers: serversField, traffic: trafficField })
+  .describe("Erlang B loss system M/M/N/N: N servers offered A erlangs of Poisson traffic");
+export type ErlangBInput = z.infer<typeof erlangBInputSchema>;
+
+export const erlangBStateDistributionInputSchema = z
+  .object({
+    servers: z.number().int().min(0).max(MAX_DISTRIBUTION_SERVERS).describe(`integer number of servers N (at most ${MAX_DISTRIBUTION_SERVERS})`),
+    traffic: trafficField,
+  })
+  .describe("truncated Poisson distribution of the number of busy servers in M/M/N/N");
+export type ErlangBStateDistributionInput = z.infer<typeof erlangBStateDistributionInputSchema>;
+
+export const maxTrafficInputSchema = z
+  .object({
+    servers: serversField.refine((n) => n > 0, "must be > 0 (no traffic meets a target below 1 on zero servers)"),
+    target: targetField,
+  })
+  .describe("largest offered traffic A with B(N, A) <= target");
+export type MaxTrafficInput = z.infer<typeof maxTrafficInputSchema>;
+
+export const minServersInputSchema = z
+  .object({
+    traffic: z.number().gt(0).max(MAX_TRAFFIC).describe(`offered traffic A in erlangs (0 < A <= ${MAX_TRAFFIC})`),
+    target: targetField,
+  })
+  .describe("smallest group (integer, or real) with B(N, A) <= target");
+export type MinServersInput = z.infer<typeof minServersInputSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Unchecked kernels (inputs already validated). All work on ln B so that nothing underflows.
+
+const TINY = 1e-280;
+const LOG_TINY = Math.log(TINY);
+
+/** ln B after walking the recursion B(x+1) = A B(x) / (x + 1 + A B(x)) `steps` times from ln B(x0). */
+function walkUp(x0: number, logB0: number, traffic: number, steps: number): number {
+  let x = x0;
+  let k = 0;
+  let logInv = -logB0;
+  if (logB0 > LOG_TINY) {
+    let b = Math.exp(logB0);
+    for (; k < steps; k++) {
+      const ab = traffic * b;
+      const next = ab / (x + 1 + ab);
+      if (next < TINY) break;
+      b = next;
+      x += 1;
+    }
+    if (k === steps) return Math.log(b);
+    logInv = -Math.log(b);
+  }
+  // Deep tail, below the float range of B: ln(1/B(x)) = ln(1/B(x-1)) + ln(x/A) + ln1p(A B(x-1) / x)
+  const logA = Math.log(traffic);
+  for (; k < steps; k++) {
+    x += 1;
+    logInv += Math.log(x) - logA + Math.log1p(Math.exp(logA - logInv) / x);
+  }
+  return -logInv;
+}
+
+/** One step of the recursion on ln B, safe at any magnitude. */
+function stepLogB(logB: number, x: number, traffic: number): number {
+  if (logB > LOG_TINY) {
+    const ab = traffic * Math.exp(logB);
+    const next = ab / (x + ab);
+    if (next >= TINY) return Math.log(next);
+  }
+  const logA = Math.log(traffic);
+  return logB - (Math.log(x) - logA + Math.log1p(Math.exp(logA + logB) / x));
+}
+
+/** 1/B(f, A) = A^-f e^A Γ(f+1, A) for 0 < f < 1, A > 0: series below a+1, Lentz continued fraction above. */
+function inverseFractionalStart(f: number, traffic: number): number {
+  const a = f + 1;
+  if (traffic < a + 1) {
+    // Γ(a,A) = Γ(a) - γ(a,A), γ(a,A) = A^a e^-A Σ A^n / (a (a+1) ... (a+n))
+    let term = 1 / a;
+    let sum = term;
+    for (let n = 1; n < 1000; n++) {
+      term *= traffic / (a + n);
+      sum += term;
+      if (term < sum * 1e-17) break;
+    }
+    return Math.exp(traffic - f * Math.log(traffic) + lnGamma(a)) - traffic * sum;
+  }
+  const fpmin = 1e-300;
+  let b = traffic + 1 - a;
+  let c = 1 / fpmin;
+  let d = 1 / b;
+  let h = d;
+  for (let i = 1; i < 10_000; i++) {
+    const an = -i * (i - a);
+    b += 2;
+    d = an * d + b;
+    if (Math.abs(d) < fpmin) d = fpmin;
+    c = b + an / c;
+    if (Math.abs(c) < fpmin) c = fpmin;
+    d = 1 / d;
+    const del = d * c;
+    h *= del;
+    if (Math.abs(del - 1) < 1e-16) break;
+  }
+  // Γ(a,A) = e^-A A^a h, so 1/B = A^-f e^A Γ(a,A) = A h
+  return traffic * h;
+}
+
+/** ln B(x, A) for real x >= 0, A >= 0. */
+export function logErlangBUnchecked(servers: number, traffic: number): number {
+  if (servers === 0) return 0;
+  if (traffic === 0) return -Infinity;
+  const whole = Math.floor(servers);
+  const frac = servers - whole;
+  if (frac === 0) return walkUp(0, 0, traffic, whole);
+  const logStart = -Math.log(inverseFractionalStart(frac, traffic));
+  return walkUp(frac, logStart, traffic, whole);
+}
+
+export function erlangBUnchecked(servers: number, traffic: number): number {
+  return Math.exp(logErlangBUnchecked(servers, traffic));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Public API
+
+/**
+ * Erlang B blocking B(N, A) of M/M/N/N (Erlang 1917). Integer N: the recursion on B, which is
+ * forward-stable; real N: the incomplete-gamma continuation B(x, A) = A^x e^-A / Γ(x+1, A)
+ * evaluated at the fractional part, then the same recursion. B(0, A) = 1, B(N > 0, 0) = 0.
+ */
+export function erlangB(servers: number, traffic: number): number {
+  const input = parseInput(erlangBInputSchema, { servers, traffic });
+  return erlangBUnchecked(input.servers, input.traffic);
+}
+
+/** ln B(N, A): use when B is below the float range (e.g. N = 100 000, A = 10). */
+export function logErlangB(servers: number, traffic: number): number {
+  const input = parseInput(erlangBInputSchema, { servers, traffic });
+  return logErlangBUnchecked(input.servers, input.traffic);
+}
+
+/** p_j = (A^j/j!) / Σ_{i<=N} A^i/i!, j = 0..N; built outward from the mode so nothing overflows. */
+export function erlangBStateDistribution(servers: number, traffic: number): number[] {
+  const { servers: n, traffic: a } = parseInput(erlangBStateDistributionInputSchema, { servers, traffic });
+  const p = new Float64Array(n + 1);
+  const mode = Math.min(n, Math.floor(a));
+  p[mode] = 1;
+  for (let j = mode + 1; j <= n; j++) p[j] = (p[j - 1] * a) / j;
+  for (let j = mode - 1; j >= 0; j--) p[j] = a === 0 ? 0 : (p[j + 1] * (j + 1)) / a;
+  if (a === 0) p.fill(0), (p[0] = 1);
+  let sum = 0;
+  for (let j = 0; j <= n; j++) sum += p[j];
+  return Array.from(p, (v) => v / sum);
+}
+
+export interface ErlangBSummary {
+  method: string;
+  servers: number;
+  traffic: number;
+  blocking: number;
+  carriedTraffic: number;
+  lostTraffic: number;
+  occupancyPerServer: number;
+}
+
+export function erlangBSummary(input: ErlangBInput): ErlangBSummary {
+  const { servers, traffic } = parseInput(erlangBInputSchema, input);
+  const blocking = erlangBUnchecked(servers, traffic);
+  const carriedTraffic = traffic * (1 - blocking);
+  return assertFiniteResult(
+    {
+      method: Number.isInteger(servers)
+        ? "Erlang B (M/M/N/N), stable recursion"
+        : "Erlang B, incomplete-gamma continuation to real N",
+      servers,
+      traffic,
+      blocking,
+      carriedTraffic,
+      lostTraffic: traffic * blocking,
+      occupancyPerServer: servers > 0 ? carriedTraffic / servers : 0,
+    },
+    "erlangBSummary",
+  );
+}
+
+export interface MaxTrafficResult {
+  method: string;
+  servers: number;
+  target: number;
+  traffic: number;
+  blocking: number;
+  carriedTraffic: number;
+  occupancyPerServer: number;
+  iterations: number;
+}
+
+/** Largest A with B(N, A) <= target (relative accuracy about 1e-13 in A). */
+export function maxTrafficForBlocking(input: MaxTrafficInput): MaxTrafficResult {
+  const { servers, target } = parseInput(maxTrafficInputSchema, input);
+  const traffic = maxTrafficUnchecked(servers, target);
+  const blocking = erlangBUnchecked(servers, traffic.root);
+  return assertFiniteResult(
+    {
+      method: "Erlang B inverse in A (safeguarded Newton on ln B, dB/dA = B (N/A - 1 + B))",
+      servers,
+      target,
+      traffic: traffic.root,
+      blocking,
+      carriedTraffic: traffic.root * (1 - blocking),
+      occupancyPerServer: (traffic.root * (1 - blocking)) / servers,
+      iterations: traffic.iterations,
+    },
+    "maxTrafficForBlocking",
+  );
+}
+
+export function maxTrafficUnchecked(servers: number, target: number): { root: number; iterations: number } {
+  const logTarget = Math.log(target);
+  // A (1 - B) <= N, so at A = N / (1 - target) the blocking is already >= target.
+  let lo = 0;
+  let hi = servers / (1 - target);
+  let x = Math.min(servers, hi * 0.5);
+  for (let i = 1; i <= 200; i++) {
+    const logB = logErlangBUnchecked(servers, x);
+    const g = logB - logTarget;
+    if (g === 0) return { root: x, iterations: i };
+    if (g < 0) lo = x;
+    else hi = x;
+    const slope = servers / x - 1 + Math.exp(logB); // d ln B / dA
+    let next = x - g / slope;
+    if (!(next > lo && next < hi) || !Number.isFinite(next)) next = 0.5 * (lo + hi);
+    if (Math.abs(next - x) <= 1e-15 * x || hi - lo <= 4e-16 * hi) {
+      // the largest A within tolerance that still meets the target
+      const finalX = logErlangBUnchecked(servers, next) <= logTarget ? next : lo > 0 ? lo : next;
+      return { root: finalX, iterations: i };
+    }
+    x = next;
+  }
+  throw new Error("maxTrafficForBlocking: Newton iteration did not settle");
+}
+
+export interface MinServersResult {
+  method: string;
+  traffic: number;
+  target: number;
+  servers: number;
+  blocking: number;
+  blockingOneLess: number;
+  realServers: number;
+  carriedTraffic: number;
+  occupancyPerServer: number;
+}
+
+/** Smallest integer N with B(N, A) <= target, with the real N* where B(N*, A) = target. */
+export function minServersForBlocking(input: MinServersInput): MinServersResult {
+  const { traffic, target } = parseInput(minServersInputSchema, input);
+  const { servers, logBlocking, logBlockingOneLess } = minServersUnchecked(traffic, target);
+  const realServers = realServersUnchecked(traffic, target, servers, logBlocking, logBlockingOneLess);
+  const blocking = Math.exp(logBlocking);
+  return assertFiniteResult(
+    {
+      method: "Erlang B recursion walked up until B <= target; real N by the continuation",
+      traffic,
+      target,
+      servers,
+      blocking,
+      blockingOneLess: Math.exp(logBlockingOneLess),
+      realServers,
+      carriedTraffic: traffic * (1 - blocking),
+      occupancyPerServer: (traffic * (1 - blocking)) / servers,
+    },
+    "minServersForBlocking",
+  );
+}
+
+export function minServersUnchecked(
+  traffic: number,
+  target: number,
+): { servers: number; logBlocking: number; logBlockingOneLess: number } {
+  const logTarget = Math.log(target);
+  let logB = 0;
+  let n = 0;
+  let prevLogB = 0;
+  while (logB > logTarget) {
+    if (n >= MAX_SERVERS) throw inputError("traffic", `needs more than ${MAX_SERVERS} servers`);
+    prevLogB = logB;
+    n += 1;
+    logB = stepLogB(logB, n, traffic);
+  }
+  return { servers: n, logBlocking: logB, logBlockingOneLess: prevLogB };
+}
+
+function realServersUnchecked(traffic: number, target: number, servers: number, logB: number, logBPrev: number): number {
+  const logTarget = Math.log(target);
+  if (logB === logTarget) return servers;
+  const lo = servers - 1;
+  const fn = (x: number) => logErlangBUnchecked(x, traffic) - logTarget;
+  return solveBracketed(fn, lo, servers, { fLo: logBPrev - logTarget, fHi: logB - logTarget, relativeTolerance: 1e-15, absoluteTolerance: 1e-13 }).root;
+}
+
+export interface RealServersResult {
+  method: string;
+  traffic: number;
+  target: number;
+  realServers: number;
+  blocking: number;
+}
+
+/** The real N at which B(N, A) = target, using the incomplete-gamma continuation. */
+export function realServersForBlocking(input: MinServersInput): RealServersResult {
+  const { traffic, target } = parseInput(minServersInputSchema, input);
+  const found = minServersUnchecked(traffic, target);
+  const realServers = realServersUnchecked(traffic, target, found.servers, found.logBlocking, found.logBlockingOneLess);
+  return assertFiniteResult(
+    {
+      method: "Erlang B continuation to real N, bracketed root in (N-1, N]",
+      traffic,
+      target,
+      realServers,
+      blocking: erlangBUnchecked(realServers, traffic),
+    },
+    "realServersForBlocking",
+  );
+}

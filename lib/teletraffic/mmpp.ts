@@ -1,0 +1,83 @@
+import { z } from "zod";
+import { assertFiniteResult, inputError, parseInput } from "./errors";
+import { phaseStationary, solveEnvironmentLossChain } from "./qbd";
+
+export const MAX_MMPP_STATES = 200_000;
+
+export const mmppLossInputSchema = z
+  .object({
+    servers: z.number().int().min(0).max(MAX_MMPP_STATES - 1).describe(`integer number of servers N; phases × (N + 1) <= ${MAX_MMPP_STATES}`),
+    rates: z.array(z.number().min(0).max(1e9)).min(1).max(4).describe("Poisson arrival rate in each phase (1 to 4 phases; on-off is [onRate, 0])"),
+    switching: z
+      .array(z.array(z.number().min(0).max(1e9)))
+      .describe("switching[i][j] = rate of changing from phase i to phase j (diagonal ignored); must be irreducible"),
+    meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time, default 1"),
+  })
+  .superRefine((v, ctx) => {
+    const k = v.rates.length;
+    if (v.switching.length !== k || v.switching.some((row) => row.length !== k)) {
+      ctx.addIssue({ code: "custom", path: ["switching"], message: `must be a ${k}×${k} matrix (one row and column per phase)` });
+    } else if (k * (v.servers + 1) > MAX_MMPP_STATES) {
+      ctx.addIssue({ code: "custom", path: ["servers"], message: `phases × (N + 1) = ${k * (v.servers + 1)} exceeds ${MAX_MMPP_STATES} states` });
+    }
+  })
+  .describe("MMPP/M/N/N: Markov-modulated Poisson arrivals, exponential holding, blocked calls lost");
+export type MmppLossInput = z.input<typeof mmppLossInputSchema>;
+
+export interface MmppLossResult {
+  method: string;
+  servers: number;
+  phases: number;
+  meanArrivalRate: number;
+  offeredTraffic: number;
+  /** fraction of time all N servers are busy */
+  timeCongestion: number;
+  /** fraction of arriving calls that find all N servers busy (arrival-weighted) */
+  callCongestion: number;
+  carriedTraffic: number;
+  lostTraffic: number;
+  phaseProbabilities: number[];
+  meanBusy: number;
+}
+
+/** Exact CTMC of MMPP/M/N/N, solved by linear level reduction (see qbd.ts). */
+export function mmppLossSystem(input: MmppLossInput): MmppLossResult {
+  const { servers: n, rates, switching, meanHolding } = parseInput(mmppLossInputSchema, input);
+  const k = rates.length;
+  const phaseRates = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) phaseRates[i * k + l] = i === l ? 0 : switching[i][l];
+  const theta = phaseStationary(phaseRates, k);
+  if (!theta) throw inputError("switching", "the phase process must be irreducible (every phase reachable from every other)");
+  const up = Float64Array.from(rates);
+  const meanArrivalRate = rates.reduce((s, rate, i) => s + rate * theta[i], 0);
+  const offeredTraffic = meanArrivalRate * meanHolding;
+  let timeCongestion = 0;
+  let callCongestion = 0;
+  let meanBusy = 0;
+  if (meanArrivalRate > 0) {
+    const pi = solveEnvironmentLossChain(n, k, phaseRates, up, 1 / meanHolding);
+    let blockedArrivals = 0;
+    for (let i = 0; i < k; i++) {
+      timeCongestion += pi[n * k + i];
+      blockedArrivals += rates[i] * pi[n * k + i];
+    }
+    for (let j = 0; j <= n; j++) for (let i = 0; i < k; i++) meanBusy += j * pi[j * k + i];
+    callCongestion = blockedArrivals / meanArrivalRate;
+  }
+  return assertFiniteResult(
+    {
+      method: "MMPP/M/N/N exact CTMC, block-tridiagonal level reduction",
+      servers: n,
+      phases: k,
+      meanArrivalRate,
+      offeredTraffic,
+      timeCongestion,
+      callCongestion,
+      carriedTraffic: offeredTraffic * (1 - callCongestion),
+      lostTraffic: offeredTraffic * callCongestion,
+      phaseProbabilities: Array.from(theta),
+      meanBusy,
+    },
+    "mmppLossSystem",
+  );
+}
