@@ -1,8 +1,8 @@
 // Entry of `npm start` and `npm test`: plain Node, because TypeScript tooling may not be installed yet.
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { existsSync, statSync } from "node:fs";
 import path from "node:path";
-import { fileURLToPath, pathToFileURL } from "node:url";
+import { fileURLToPath } from "node:url";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
 const mode = process.argv[2];
@@ -22,6 +22,9 @@ if (!existsSync(installed) || statSync(lock).mtimeMs > statSync(installed).mtime
   }
 }
 
-const { register } = await import(pathToFileURL(path.join(root, "node_modules/tsx/dist/esm/api/index.mjs")).href);
-register();
-await import(pathToFileURL(path.join(root, "lib/ops", `${mode}.ts`)).href);
+// The supervisor runs in a child with tsx loaded; signals reach it, and it stops everything it started.
+const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "lib/ops", `${mode}.ts`)], { cwd: root, stdio: "inherit" });
+for (const signal of ["SIGINT", "SIGTERM", "SIGHUP"]) {
+  process.on(signal, () => child.kill(signal));
+}
+child.on("exit", (code, signal) => process.exit(code ?? (signal ? 1 : 0)));

@@ -53,6 +53,8 @@ export interface ReplicationOptions {
   warmupCalls?: number;
   /** Record busy-integral snapshots every `traceEvery` fresh calls (MSER-5 pilot). */
   traceEvery?: number;
+  /** Always use the general event loop (tests compare it with the fast path). */
+  generalLoop?: boolean;
 }
 
 /** Stationary distribution of a CTMC generator with off-diagonal rates q[i][j] (Gaussian elimination). */
@@ -170,6 +172,7 @@ export class Replication {
   private readonly callsTarget: number;
   private readonly horizon: number;
   private readonly traceEvery: number;
+  private readonly fastPath: boolean;
   readonly traceTime: number[] = [];
   readonly traceBusy: number[] = [];
 
@@ -283,6 +286,8 @@ export class Replication {
     this.warmupCallsTarget = options.warmupCalls ?? run.warmupCalls ?? 0;
     this.warmupTimeTarget = options.warmupCalls !== undefined ? 0 : (run.warmupTime ?? 0);
     this.traceEvery = options.traceEvery ?? 0;
+    this.fastPath =
+      !options.generalLoop && this.exponentialHoldingMean > 0 && process === P_POISSON && this.waitingPositions === 0 && !this.retryDelay && this.traceEvery === 0;
     if (this.warmupCallsTarget === 0 && this.warmupTimeTarget === 0) this.startMeasuring();
     else if (this.warmupTimeTarget > 0) this.control = this.warmupTimeTarget;
 
@@ -546,8 +551,7 @@ export class Replication {
   /** Runs up to `maxEvents` events; returns true once the replication is complete. */
   advance(maxEvents: number): boolean {
     if (this.done) return true;
-    if (this.exponentialHoldingMean > 0 && this.process === P_POISSON && this.waitingPositions === 0 && !this.retryDelay && this.traceEvery === 0)
-      return this.advancePoissonExponential(maxEvents);
+    if (this.fastPath) return this.advancePoissonExponential(maxEvents);
     const occupancy = this.occupancy;
     const finite = this.process === P_FINITE;
     const limit = this.events + maxEvents;

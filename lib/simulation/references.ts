@@ -148,6 +148,45 @@ export function referencesFor(scenario: Scenario): Reference[] {
       );
   }
 
+  const mmpp = mmppOf(a);
+  if (mmpp) {
+    out.push(
+      attempt("MMPP/M/N/N exact chain", "Markov-modulated Poisson arrivals, exponential holding, blocked calls cleared", exponentialHolding && pureLoss, () => {
+        const m = tt.mmppLossSystem({ servers: n, rates: mmpp.rates, switching: mmpp.switching, meanHolding: h });
+        return { callCongestion: m.callCongestion, timeCongestion: m.timeCongestion, carriedTraffic: m.carriedTraffic };
+      }),
+    );
+  }
+
+  if (a.process === "batch" && a.batchSize.law === "geometric") {
+    const batchSize = a.batchSize;
+    out.push(
+      attempt(
+        "batch Poisson exact chain",
+        `Poisson batches with geometric sizes, exponential holding, ${a.admission} admission, blocked calls cleared`,
+        exponentialHolding && pureLoss,
+        () => {
+          const b = tt.batchPoissonLossSystem({ servers: n, traffic, meanBatchSize: batchSize.mean, admission: a.admission });
+          return { callCongestion: b.callCongestion, timeCongestion: b.timeCongestion, carriedTraffic: b.carriedTraffic };
+        },
+      ),
+    );
+  }
+
+  if (a.process === "overflow") {
+    out.push(
+      attempt(
+        "overflow network exact chain",
+        "Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, blocked calls cleared",
+        exponentialHolding && pureLoss,
+        () => {
+          const o = tt.overflowLossSystem({ primaries: a.primaries, servers: n });
+          return { callCongestion: o.blocking, timeCongestion: o.timeCongestion, carriedTraffic: o.overflowOffered - o.overflowLost };
+        },
+      ),
+    );
+  }
+
   if (a.process === "overflow") {
     const { mean, variance } = overflowStreamMoments(a.primaries);
     const singlePrimary = a.primaries.length === 1;

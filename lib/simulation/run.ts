@@ -1,3 +1,6 @@
+import { createRequire } from "node:module";
+import path from "node:path";
+import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import { Replication, type ReplicationStats } from "./engine";
 import { mser5, ratioInterval } from "./estimators";
@@ -203,9 +206,21 @@ async function runInThisThread(
   return out;
 }
 
-/** Where the worker entry lives; it is TypeScript, loaded through tsx in the worker. */
-function workerUrl(): URL {
-  return new URL("./replication-worker.ts", `file://${__dirname}/`);
+/**
+ * The worker entry is TypeScript. `execArgv: ["--import", "tsx"]` does not reach a worker's
+ * entry module on Node 20, so a two-line CommonJS bootstrap registers tsx's require hook and
+ * then loads the entry; this works the same under the tsx CLI and under vitest.
+ */
+function workerBootstrap(): string {
+  const here = path.dirname(fileURLToPath(moduleUrl()));
+  const localRequire = createRequire(path.join(here, "run.ts"));
+  const tsxCjs = localRequire.resolve("tsx/cjs");
+  return `require(${JSON.stringify(tsxCjs)}); require(${JSON.stringify(path.join(here, "replication-worker.ts"))});`;
+}
+
+function moduleUrl(): string {
+  // CommonJS under the tsx CLI has __filename; ESM (vitest) has import.meta.url.
+  return typeof __filename === "string" ? pathToFileURL(__filename).href : import.meta.url;
 }
 
 type WorkerMessage = { type: "progress"; index: number; fraction: number } | { type: "done"; index: number; stats: ReplicationStats } | { type: "error"; message: string };
@@ -220,7 +235,7 @@ class WorkerPool {
     private readonly signal?: AbortSignal,
   ) {
     for (let i = 0; i < threads; i++) {
-      this.workers.push(new Worker(workerUrl(), { workerData: { scenario }, execArgv: ["--import", "tsx"] }));
+      this.workers.push(new Worker(workerBootstrap(), { eval: true, workerData: { scenario } }));
     }
   }
 

@@ -289,7 +289,7 @@ const shortMessages: z.core.$ZodErrorMap = (issue) => {
     case "unrecognized_keys":
       return `unknown field${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => `"${k}"`).join(", ")}`;
     case "invalid_union":
-      if (issue.discriminator) return `${issue.discriminator} must be one of ${(issue.options ?? []).map((o) => `"${String(o)}"`).join(", ")}`;
+      if (issue.discriminator) return `must be one of ${(((issue as { options?: unknown[] }).options) ?? []).map((o) => `"${String(o)}"`).join(", ")}`;
       return undefined;
     case "invalid_value":
       return `must be one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}`;
@@ -305,7 +305,7 @@ export function parseScenario(json: unknown): Scenario {
   const issue = result.error.issues[0];
   // A discriminated union reports at the object; name the discriminator field itself.
   let path = [...issue.path];
-  if (issue.code === "invalid_union" && issue.discriminator) path = [...path, issue.discriminator];
+  if (issue.code === "invalid_union" && issue.discriminator && path[path.length - 1] !== issue.discriminator) path = [...path, issue.discriminator];
   const where = formatPath(path);
   const more = result.error.issues.length > 1 ? ` (and ${result.error.issues.length - 1} more)` : "";
   throw new ScenarioError(`${where}: ${issue.message}${more}`, where);

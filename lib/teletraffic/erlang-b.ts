@@ -61,7 +61,7 @@ const TINY = 1e-280;
 const LOG_TINY = Math.log(TINY);
 
 /** ln B after walking the recursion B(x+1) = A B(x) / (x + 1 + A B(x)) `steps` times from ln B(x0). */
-function walkUp(x0: number, logB0: number, traffic: number, steps: number): number {
+function walkUp(x0: number, logB0: number, traffic: number, steps: number): { blocking: number; logBlocking: number } {
   let x = x0;
   let k = 0;
   let logInv = -logB0;
@@ -74,7 +74,7 @@ function walkUp(x0: number, logB0: number, traffic: number, steps: number): numb
       b = next;
       x += 1;
     }
-    if (k === steps) return Math.log(b);
+    if (k === steps) return { blocking: b, logBlocking: Math.log(b) };
     logInv = -Math.log(b);
   }
   // Deep tail, below the float range of B: ln(1/B(x)) = ln(1/B(x-1)) + ln(x/A) + ln1p(A B(x-1) / x)
@@ -83,7 +83,7 @@ function walkUp(x0: number, logB0: number, traffic: number, steps: number): numb
     x += 1;
     logInv += Math.log(x) - logA + Math.log1p(Math.exp(logA - logInv) / x);
   }
-  return -logInv;
+  return { blocking: Math.exp(-logInv), logBlocking: -logInv };
 }
 
 /** One step of the recursion on ln B, safe at any magnitude. */
@@ -132,10 +132,9 @@ function inverseFractionalStart(f: number, traffic: number): number {
   return traffic * h;
 }
 
-/** ln B(x, A) for real x >= 0, A >= 0. */
-export function logErlangBUnchecked(servers: number, traffic: number): number {
-  if (servers === 0) return 0;
-  if (traffic === 0) return -Infinity;
+function erlangBBoth(servers: number, traffic: number): { blocking: number; logBlocking: number } {
+  if (servers === 0) return { blocking: 1, logBlocking: 0 };
+  if (traffic === 0) return { blocking: 0, logBlocking: -Infinity };
   const whole = Math.floor(servers);
   const frac = servers - whole;
   if (frac === 0) return walkUp(0, 0, traffic, whole);
@@ -143,8 +142,13 @@ export function logErlangBUnchecked(servers: number, traffic: number): number {
   return walkUp(frac, logStart, traffic, whole);
 }
 
+/** ln B(x, A) for real x >= 0, A >= 0. */
+export function logErlangBUnchecked(servers: number, traffic: number): number {
+  return erlangBBoth(servers, traffic).logBlocking;
+}
+
 export function erlangBUnchecked(servers: number, traffic: number): number {
-  return Math.exp(logErlangBUnchecked(servers, traffic));
+  return erlangBBoth(servers, traffic).blocking;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -250,20 +254,29 @@ export function maxTrafficUnchecked(servers: number, target: number): { root: nu
   for (let i = 1; i <= 200; i++) {
     const logB = logErlangBUnchecked(servers, x);
     const g = logB - logTarget;
-    if (g === 0) return { root: x, iterations: i };
+    if (g === 0) return { root: stepDownToTarget(servers, x, target), iterations: i };
     if (g < 0) lo = x;
     else hi = x;
     const slope = servers / x - 1 + Math.exp(logB); // d ln B / dA
     let next = x - g / slope;
     if (!(next > lo && next < hi) || !Number.isFinite(next)) next = 0.5 * (lo + hi);
     if (Math.abs(next - x) <= 1e-15 * x || hi - lo <= 4e-16 * hi) {
-      // the largest A within tolerance that still meets the target
-      const finalX = logErlangBUnchecked(servers, next) <= logTarget ? next : lo > 0 ? lo : next;
-      return { root: finalX, iterations: i };
+      return { root: stepDownToTarget(servers, next, target), iterations: i };
     }
     x = next;
   }
   throw new Error("maxTrafficForBlocking: Newton iteration did not settle");
+}
+
+/** Steps down by a few ulps until the blocking, as the caller will recompute it, meets the target. */
+function stepDownToTarget(servers: number, traffic: number, target: number): number {
+  let x = traffic;
+  for (let k = 0; k < 60 && !meetsTarget(servers, x, target); k++) x *= 1 - 2 ** (k - 52);
+  return x;
+}
+
+function meetsTarget(servers: number, traffic: number, target: number): boolean {
+  return target >= TINY ? erlangBUnchecked(servers, traffic) <= target : logErlangBUnchecked(servers, traffic) <= Math.log(target);
 }
 
 export interface MinServersResult {
@@ -281,9 +294,8 @@ export interface MinServersResult {
 /** Smallest integer N with B(N, A) <= target, with the real N* where B(N*, A) = target. */
 export function minServersForBlocking(input: MinServersInput): MinServersResult {
   const { traffic, target } = parseInput(minServersInputSchema, input);
-  const { servers, logBlocking, logBlockingOneLess } = minServersUnchecked(traffic, target);
+  const { servers, blocking, blockingOneLess, logBlocking, logBlockingOneLess } = minServersUnchecked(traffic, target);
   const realServers = realServersUnchecked(traffic, target, servers, logBlocking, logBlockingOneLess);
-  const blocking = Math.exp(logBlocking);
   return assertFiniteResult(
     {
       method: "Erlang B recursion walked up until B <= target; real N by the continuation",
@@ -291,7 +303,7 @@ export function minServersForBlocking(input: MinServersInput): MinServersResult 
       target,
       servers,
       blocking,
-      blockingOneLess: Math.exp(logBlockingOneLess),
+      blockingOneLess,
       realServers,
       carriedTraffic: traffic * (1 - blocking),
       occupancyPerServer: (traffic * (1 - blocking)) / servers,
@@ -303,10 +315,23 @@ export function minServersForBlocking(input: MinServersInput): MinServersResult 
 export function minServersUnchecked(
   traffic: number,
   target: number,
-): { servers: number; logBlocking: number; logBlockingOneLess: number } {
+): { servers: number; blocking: number; blockingOneLess: number; logBlocking: number; logBlockingOneLess: number } {
+  let n = 0;
+  if (target >= TINY) {
+    // same arithmetic as walkUp, so B at the returned N is bit-identical to erlangB(N, A)
+    let b = 1;
+    let prev = 1;
+    while (b > target) {
+      if (n >= MAX_SERVERS) throw inputError("traffic", `needs more than ${MAX_SERVERS} servers`);
+      prev = b;
+      const ab = traffic * b;
+      b = ab / (n + 1 + ab);
+      n += 1;
+    }
+    return { servers: n, blocking: b, blockingOneLess: prev, logBlocking: Math.log(b), logBlockingOneLess: Math.log(prev) };
+  }
   const logTarget = Math.log(target);
   let logB = 0;
-  let n = 0;
   let prevLogB = 0;
   while (logB > logTarget) {
     if (n >= MAX_SERVERS) throw inputError("traffic", `needs more than ${MAX_SERVERS} servers`);
@@ -314,12 +339,12 @@ export function minServersUnchecked(
     n += 1;
     logB = stepLogB(logB, n, traffic);
   }
-  return { servers: n, logBlocking: logB, logBlockingOneLess: prevLogB };
+  return { servers: n, blocking: Math.exp(logB), blockingOneLess: Math.exp(prevLogB), logBlocking: logB, logBlockingOneLess: prevLogB };
 }
 
 function realServersUnchecked(traffic: number, target: number, servers: number, logB: number, logBPrev: number): number {
   const logTarget = Math.log(target);
-  if (logB === logTarget) return servers;
+  if (logB >= logTarget) return servers; // meets the target only within rounding: the root is N itself
   const lo = servers - 1;
   const fn = (x: number) => logErlangBUnchecked(x, traffic) - logTarget;
   return solveBracketed(fn, lo, servers, { fLo: logBPrev - logTarget, fHi: logB - logTarget, relativeTolerance: 1e-15, absoluteTolerance: 1e-13 }).root;

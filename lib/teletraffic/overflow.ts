@@ -75,7 +75,7 @@ function serversForOverflowMean(traffic: number, mean: number): number {
   const target = mean / traffic;
   const logTarget = Math.log(target);
   const found = minServersUnchecked(traffic, target);
-  if (found.logBlocking === logTarget) return found.servers;
+  if (found.logBlocking >= logTarget) return found.servers;
   return solveBracketed((x) => logErlangBUnchecked(x, traffic) - logTarget, found.servers - 1, found.servers, {
     fLo: found.logBlockingOneLess - logTarget,
     fHi: found.logBlocking - logTarget,

@@ -7,8 +7,10 @@
  * Linear level reduction (Gaver, Jacobs & Latouche 1984, "Finite birth-and-death models in
  * randomly changing environments", Adv. Appl. Prob. 16): R_N = Λ (-D_N)^-1,
  * R_j = Λ (-(D_j + (j+1) μ R_{j+1}))^-1, π_j = π_{j-1} R_j. All matrices being inverted are
- * nonsingular M-matrices, so the elimination is stable; each level vector is rescaled and its
+ * nonsingular M-matrices; each level vector is rescaled and its
  * log scale kept, so nothing overflows for N in the thousands. Cost O(N k^3), memory O(N k^2).
+ * The M-matrices are factored without subtraction (their row sums are known exactly), and level 0
+ * is solved by GTH, so the result keeps full relative accuracy even when levels differ by e^±100.
  */
 export function solveEnvironmentLossChain(
   servers: number,
@@ -21,55 +23,50 @@ export function solveEnvironmentLossChain(
   const n = servers;
   const kk = k * k;
   const r = new Float64Array((n + 1) * kk); // R_j stored at j*kk, j = 1..N
-  const outSwitch = new Float64Array(k);
-  for (let i = 0; i < k; i++) {
-    let s = 0;
-    for (let l = 0; l < k; l++) if (l !== i) s += phaseRates[i * k + l];
-    outSwitch[i] = s;
-  }
-  const m = new Float64Array(kk);
-  const inv = new Float64Array(kk);
+  const off = new Float64Array(kk);
+  const slack = new Float64Array(k);
+  const factor = new Float64Array(kk);
+  const unit = new Float64Array(k);
+  const row = new Float64Array(k);
   for (let j = n; j >= 1; j--) {
-    // M_j = -(D_j + (j+1) μ R_{j+1})
+    // M_j = -(D_j + (j+1) μ R_{j+1}) is an M-matrix with row sums exactly j μ (because (j+1) μ R_{j+1} 1 = λ);
+    // its diagonal is rebuilt from the off-diagonals and that slack, so no subtraction ever occurs (GTH idea).
+    const next = (j + 1) * kk;
+    const c = (j + 1) * mu;
     for (let i = 0; i < k; i++) {
-      for (let l = 0; l < k; l++) m[i * k + l] = i === l ? outSwitch[i] + (j < n ? upRates[i] : 0) + j * mu : -phaseRates[i * k + l];
+      slack[i] = j * mu;
+      for (let l = 0; l < k; l++) off[i * k + l] = i === l ? 0 : phaseRates[i * k + l] + (j < n ? c * r[next + i * k + l] : 0);
     }
-    if (j < n) {
-      const c = (j + 1) * mu;
-      const next = (j + 1) * kk;
-      for (let e = 0; e < kk; e++) m[e] -= c * r[next + e];
-    }
-    invert(m, inv, k);
+    factorMMatrix(off, slack, factor, k);
     const base = j * kk;
     for (let i = 0; i < k; i++) {
       const lambda = upRates[i];
-      for (let l = 0; l < k; l++) r[base + i * k + l] = lambda * inv[i * k + l];
+      if (lambda === 0) continue;
+      unit.fill(0);
+      unit[i] = lambda;
+      solveRowMMatrix(factor, unit, row, k);
+      for (let l = 0; l < k; l++) r[base + i * k + l] = row[l];
     }
   }
-  // Level 0: π_0 G = 0 with G = D_0 + μ R_1 (a generator); replace the last column by the normalisation.
+  // Level 0: π_0 G = 0 with G = D_0 + μ R_1 a generator; GTH on its off-diagonal rates.
   const g = new Float64Array(kk);
-  for (let i = 0; i < k; i++) {
-    for (let l = 0; l < k; l++) g[i * k + l] = i === l ? -(outSwitch[i] + (n > 0 ? upRates[i] : 0)) : phaseRates[i * k + l];
-  }
-  if (n > 0) for (let e = 0; e < kk; e++) g[e] += mu * r[kk + e];
-  for (let i = 0; i < k; i++) g[i * k + k - 1] = 1;
-  const rhs = new Float64Array(k);
-  rhs[k - 1] = 1;
-  const pi0 = solveRowSystem(g, rhs, k);
+  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) if (i !== l) g[i * k + l] = phaseRates[i * k + l] + (n > 0 ? mu * r[kk + i * k + l] : 0);
+  const pi0 = gthStationary(g, k);
+  if (!pi0) throw new Error("level-0 generator is reducible");
   const pi = new Float64Array((n + 1) * k);
   const logScale = new Float64Array(n + 1);
-  let level = pi0.map((v) => Math.max(0, v));
+  let level: Float64Array = pi0;
   let levelScale = 0;
   for (let j = 0; j <= n; j++) {
     if (j > 0) {
-      const next = new Float64Array(k);
+      const nextLevel = new Float64Array(k);
       const base = j * kk;
       for (let i = 0; i < k; i++) {
         const v = level[i];
         if (v === 0) continue;
-        for (let l = 0; l < k; l++) next[l] += v * r[base + i * k + l];
+        for (let l = 0; l < k; l++) nextLevel[l] += v * r[base + i * k + l];
       }
-      level = next;
+      level = nextLevel;
     }
     let s = 0;
     for (let i = 0; i < k; i++) s += level[i];
@@ -81,7 +78,10 @@ export function solveEnvironmentLossChain(
     }
     logScale[j] = levelScale;
     for (let i = 0; i < k; i++) pi[j * k + i] = level[i];
-    if (levelScale === -Infinity) break;
+    if (levelScale === -Infinity) {
+      for (let jj = j + 1; jj <= n; jj++) logScale[jj] = -Infinity;
+      break;
+    }
   }
   let maxLog = -Infinity;
   for (let j = 0; j <= n; j++) if (logScale[j] > maxLog) maxLog = logScale[j];
@@ -95,50 +95,76 @@ export function solveEnvironmentLossChain(
   return pi;
 }
 
-/** Inverse of a small dense matrix by Gauss–Jordan with partial pivoting. */
-function invert(source: Float64Array, out: Float64Array, k: number): void {
-  const a = Float64Array.from(source);
-  out.fill(0);
-  for (let i = 0; i < k; i++) out[i * k + i] = 1;
-  for (let col = 0; col < k; col++) {
-    let p = col;
-    for (let r = col + 1; r < k; r++) if (Math.abs(a[r * k + col]) > Math.abs(a[p * k + col])) p = r;
-    const pivot = a[p * k + col];
-    if (pivot === 0 || !Number.isFinite(pivot)) throw new Error("singular block in level reduction");
-    if (p !== col) {
-      for (let c = 0; c < k; c++) {
-        let t = a[p * k + c];
-        a[p * k + c] = a[col * k + c];
-        a[col * k + c] = t;
-        t = out[p * k + c];
-        out[p * k + c] = out[col * k + c];
-        out[col * k + c] = t;
-      }
-    }
-    const invPivot = 1 / pivot;
-    for (let c = 0; c < k; c++) {
-      a[col * k + c] *= invPivot;
-      out[col * k + c] *= invPivot;
-    }
-    for (let r = 0; r < k; r++) {
-      if (r === col) continue;
-      const f = a[r * k + col];
-      if (f === 0) continue;
-      for (let c = 0; c < k; c++) {
-        a[r * k + c] -= f * a[col * k + c];
-        out[r * k + c] -= f * out[col * k + c];
-      }
+/**
+ * LU of the M-matrix with off-diagonal entries -off[i][l] (off >= 0) and row sums slack[i] >= 0,
+ * without pivoting and without subtraction: Schur complements keep nonnegative off-diagonals and
+ * slacks, and each pivot is slack + Σ off-diagonals. out holds U (upper, incl. diagonal) and the
+ * multipliers |L| (strictly lower) as magnitudes.
+ */
+function factorMMatrix(off: Float64Array, slack: Float64Array, out: Float64Array, k: number): void {
+  const a = out;
+  a.set(off);
+  const s = Float64Array.from(slack);
+  for (let p = 0; p < k; p++) {
+    let pivot = s[p];
+    for (let l = p + 1; l < k; l++) pivot += a[p * k + l];
+    // the already eliminated columns (l < p) are folded into s[p] below
+    if (!(pivot > 0)) throw new Error("singular M-matrix in level reduction");
+    a[p * k + p] = pivot;
+    for (let i = p + 1; i < k; i++) {
+      const m = a[i * k + p] / pivot; // |L_ip|
+      a[i * k + p] = m;
+      if (m === 0) continue;
+      for (let l = p + 1; l < k; l++) a[i * k + l] += m * a[p * k + l];
+      // row i lost its entry in column p (−off_ip) and gained −m × (row p); net row-sum change is m s_p
+      s[i] += m * s[p];
     }
   }
 }
 
-/** Solves x G = b (row vector x) for small dense G. */
-function solveRowSystem(g: Float64Array, b: Float64Array, k: number): Float64Array {
-  const inv = new Float64Array(k * k);
-  invert(g, inv, k);
-  const x = new Float64Array(k);
-  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) x[l] += b[i] * inv[i * k + l];
-  return x;
+/** Solves y M = b for b >= 0 with the factor of factorMMatrix (M = L U); all steps are additions. */
+function solveRowMMatrix(a: Float64Array, b: Float64Array, y: Float64Array, k: number): void {
+  // z U = b
+  const z = y;
+  for (let l = 0; l < k; l++) {
+    let v = b[l];
+    for (let i = 0; i < l; i++) v += z[i] * a[i * k + l];
+    z[l] = v / a[l * k + l];
+  }
+  // y L = z, L unit lower with entries −|L|
+  for (let i = k - 1; i >= 0; i--) {
+    let v = z[i];
+    for (let l = i + 1; l < k; l++) v += y[l] * a[l * k + i];
+    y[i] = v;
+  }
+}
+
+/** Stationary distribution of a generator from its off-diagonal rates, Grassmann–Taksar–Heyman (1985) elimination. */
+export function gthStationary(rates: Float64Array, k: number): Float64Array | null {
+  const q = Float64Array.from(rates);
+  for (let i = 0; i < k; i++) q[i * k + i] = 0;
+  for (let l = k - 1; l >= 1; l--) {
+    let s = 0;
+    for (let j = 0; j < l; j++) s += q[l * k + j];
+    if (!(s > 0)) return null;
+    for (let i = 0; i < l; i++) q[i * k + l] /= s;
+    for (let i = 0; i < l; i++) {
+      const f = q[i * k + l];
+      if (f === 0) continue;
+      for (let j = 0; j < l; j++) if (j !== i) q[i * k + j] += f * q[l * k + j];
+    }
+  }
+  const pi = new Float64Array(k);
+  pi[0] = 1;
+  for (let l = 1; l < k; l++) {
+    let v = 0;
+    for (let i = 0; i < l; i++) v += pi[i] * q[i * k + l];
+    pi[l] = v;
+  }
+  let total = 0;
+  for (let i = 0; i < k; i++) total += pi[i];
+  for (let i = 0; i < k; i++) pi[i] /= total;
+  return pi;
 }
 
 /** Stationary distribution θ of a small irreducible generator, or null if it is reducible. */
@@ -161,14 +187,5 @@ export function phaseStationary(phaseRates: Float64Array, k: number): Float64Arr
     return seen.every(Boolean);
   };
   if (!reach(true) || !reach(false)) return null;
-  const g = new Float64Array(k * k);
-  for (let i = 0; i < k; i++) {
-    let out = 0;
-    for (let l = 0; l < k; l++) if (l !== i) out += phaseRates[i * k + l];
-    for (let l = 0; l < k; l++) g[i * k + l] = l === i ? -out : phaseRates[i * k + l];
-  }
-  for (let i = 0; i < k; i++) g[i * k + k - 1] = 1;
-  const rhs = new Float64Array(k);
-  rhs[k - 1] = 1;
-  return solveRowSystem(g, rhs, k);
+  return gthStationary(phaseRates, k);
 }
