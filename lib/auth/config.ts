@@ -35,6 +35,13 @@ const buildConfig = (): NextAuthConfig => ({
     sessionsTable: sessions,
     verificationTokensTable: verificationTokens,
   }),
+  logger: {
+    // Wrong passwords and used links are expected traffic, not server errors.
+    error(error) {
+      if (["CredentialsSignin", "Verification", "AccessDenied"].includes((error as { type?: string }).type ?? error.name)) return;
+      console.error(error);
+    },
+  },
   pages: { signIn: "/sign-in", verifyRequest: "/sign-in/check-email", error: "/sign-in" },
   providers: [
     Credentials({

@@ -38,7 +38,7 @@ function runVitest(env: NodeJS.ProcessEnv): SuiteCount {
   const report = path.join(outputDir, "vitest.json");
   const result = spawnSync(
     process.execPath,
-    [path.join(projectRoot, "node_modules/vitest/vitest.mjs"), "run", "--config", "tests/vitest.config.ts", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`],
+    [path.join(projectRoot, "node_modules/vitest/vitest.mjs"), "run", "--config", "tests/vitest.config.mts", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`],
     { cwd: projectRoot, env, stdio: "inherit" },
   );
   const json = readJson(report);

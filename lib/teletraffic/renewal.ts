@@ -8,7 +8,7 @@ const positiveMean = z.number().gt(0).max(1e12);
 
 /** Interarrival laws, same shapes as the simulation's scenario file. */
 export const interarrivalLawSchema = z
-  .union([
+  .discriminatedUnion("law", [
     z.object({ law: z.literal("exponential"), mean: positiveMean.describe("mean interarrival time") }),
     z.object({
       law: z.literal("erlang"),

@@ -1,8 +1,11 @@
 import { defineConfig } from "vitest/config";
 import path from "node:path";
+import { fileURLToPath } from "node:url";
 
-const root = path.resolve(__dirname, "..");
-const alias = { "@": root, "server-only": path.resolve(__dirname, "support/server-only-stub.ts") };
+const here = path.dirname(fileURLToPath(import.meta.url));
+
+const root = path.resolve(here, "..");
+const alias = { "@": root, "server-only": path.resolve(here, "support/server-only-stub.ts") };
 
 export default defineConfig({
   root,
