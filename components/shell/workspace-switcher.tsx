@@ -11,7 +11,7 @@ export function WorkspaceSwitcher({ current, workspaces }: { current: string; wo
         aria-label="Workspace"
         value={current}
         onChange={(event) => router.push(`/w/${event.target.value}`)}
-        className="max-w-64 rounded-lg border border-basin-700 bg-basin-900 px-2 py-1.5 text-sm text-white"
+        className="max-w-80 rounded-lg border border-basin-700 bg-basin-900 px-2 py-1.5 text-sm text-white"
       >
         {workspaces.map((w) => (
           <option key={w.slug} value={w.slug}>

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import * as tt from "../teletraffic";
 import { mmppOf, stationaryOfGenerator } from "./engine";
-import { batchMean, lawMean, type Law, type Scenario } from "./scenario";
+import { batchMean, lawMean, type BatchSizeLaw, type Law, type Scenario } from "./scenario";
 
 /** An analytic value for (part of) the scenario, from lib/teletraffic. */
 export const referenceSchema = z.object({
@@ -36,6 +36,79 @@ export function overflowStreamMoments(primaries: { traffic: number; servers: num
     variance += m.variance;
   }
   return { mean, variance };
+}
+
+/** Solves x A = b for a small dense matrix (Gaussian elimination with partial pivoting). */
+function solveRowSystem(a: number[][], b: number[]): number[] {
+  const k = b.length;
+  // x A = b  <=>  A^T x^T = b^T
+  const m = Array.from({ length: k }, (_, i) => [...Array.from({ length: k }, (_, j) => a[j][i]), b[i]]);
+  for (let c = 0; c < k; c++) {
+    let p = c;
+    for (let r = c + 1; r < k; r++) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
+    [m[c], m[p]] = [m[p], m[c]];
+    for (let r = 0; r < k; r++) {
+      if (r === c) continue;
+      const f = m[r][c] / m[c][c];
+      for (let j = c; j <= k; j++) m[r][j] -= f * m[c][j];
+    }
+  }
+  return m.map((row, i) => row[k] / row[i]);
+}
+
+/**
+ * Mean and variance of the busy servers an MMPP would hold on an infinite group with exponential
+ * holding (rate mu): with m_j = E[N; J = j] and f_j = E[N(N-1); J = j], the stationary moment
+ * equations are m (mu I - Q) = pi Lambda and f (2 mu I - Q) = 2 m Lambda.
+ */
+export function mmppOfferedMoments(rates: number[], switching: number[][], meanHolding: number): { mean: number; variance: number } {
+  const k = rates.length;
+  const mu = 1 / meanHolding;
+  const pi = stationaryOfGenerator(switching);
+  const shifted = (c: number) =>
+    Array.from({ length: k }, (_, i) =>
+      Array.from({ length: k }, (_, j) => {
+        if (i !== j) return -switching[i][j];
+        let out = 0;
+        for (let l = 0; l < k; l++) if (l !== i) out += switching[i][l];
+        return c + out;
+      }),
+    );
+  const m = solveRowSystem(shifted(mu), pi.map((p, i) => p * rates[i]));
+  const f = solveRowSystem(shifted(2 * mu), m.map((x, i) => 2 * x * rates[i]));
+  const mean = m.reduce((a, b) => a + b, 0);
+  return { mean, variance: f.reduce((a, b) => a + b, 0) + mean - mean * mean };
+}
+
+/** Batch Poisson on an infinite group with exponential holding: Z = (1 + E[X^2]/E[X]) / 2 (Campbell's theorem). */
+export function batchPeakedness(law: BatchSizeLaw): number {
+  let m1 = 0;
+  let m2 = 0;
+  switch (law.law) {
+    case "geometric":
+      m1 = law.mean;
+      m2 = law.mean * (law.mean - 1) + law.mean * law.mean; // var = m (m - 1)
+      break;
+    case "fixed":
+      m1 = law.value;
+      m2 = law.value * law.value;
+      break;
+    case "uniform":
+      for (let x = law.min; x <= law.max; x++) {
+        m1 += x;
+        m2 += x * x;
+      }
+      m1 /= law.max - law.min + 1;
+      m2 /= law.max - law.min + 1;
+      break;
+    case "empirical":
+      law.values.forEach((x, i) => {
+        m1 += x * law.probabilities[i];
+        m2 += x * x * law.probabilities[i];
+      });
+      break;
+  }
+  return (1 + m2 / m1) / 2;
 }
 
 /** Mean fresh-call rate offered to the group under study (for overflow: the overflow rate). */
@@ -154,6 +227,27 @@ export function referencesFor(scenario: Scenario): Reference[] {
       attempt("MMPP/M/N/N exact chain", "Markov-modulated Poisson arrivals, exponential holding, blocked calls cleared", exponentialHolding && pureLoss, () => {
         const m = tt.mmppLossSystem({ servers: n, rates: mmpp.rates, switching: mmpp.switching, meanHolding: h });
         return { callCongestion: m.callCongestion, timeCongestion: m.timeCongestion, carriedTraffic: m.carriedTraffic };
+      }),
+    );
+  }
+
+  // Peaked streams (MMPP, batches): equivalent random and Hayward on the stream's infinite-group moments.
+  let peaked: { mean: number; variance: number; what: string } | undefined;
+  if (mmpp) peaked = { ...mmppOfferedMoments(mmpp.rates, mmpp.switching, h), what: "MMPP" };
+  if (a.process === "batch") peaked = { mean: traffic, variance: traffic * batchPeakedness(a.batchSize), what: "batch Poisson" };
+  if (peaked && peaked.variance / peaked.mean > 1 + 1e-9) {
+    const { mean, variance, what } = peaked;
+    const z = variance / mean;
+    out.push(
+      attempt("Wilkinson equivalent random", `${what} stream replaced by an overflow stream with the same mean and variance (peakedness ${z.toPrecision(4)} for exponential holding)`, false, () => {
+        const er = tt.equivalentRandom({ mean, variance, servers: n });
+        return { callCongestion: er.blocking, carriedTraffic: mean - (er.lostTraffic ?? 0) };
+      }),
+    );
+    out.push(
+      attempt("Hayward", `peaked stream: B(N/Z, M/Z) with Z = ${z.toPrecision(4)} of the ${what} stream for exponential holding`, false, () => {
+        const hw = tt.haywardBlocking({ mean, variance, servers: n });
+        return { callCongestion: hw.blocking, carriedTraffic: mean - hw.lostTraffic };
       }),
     );
   }

@@ -97,11 +97,11 @@ function stepLogB(logB: number, x: number, traffic: number): number {
   return logB - (Math.log(x) - logA + Math.log1p(Math.exp(logA + logB) / x));
 }
 
-/** 1/B(f, A) = A^-f e^A Γ(f+1, A) for 0 < f < 1, A > 0: series below a+1, Lentz continued fraction above. */
-function inverseFractionalStart(f: number, traffic: number): number {
+/** ln(1/B(f, A)) = ln(A^-f e^A Γ(f+1, A)) for 0 < f < 1, A > 0: series below a+1, Lentz continued fraction above. */
+function logInverseFractionalStart(f: number, traffic: number): number {
   const a = f + 1;
   if (traffic < a + 1) {
-    // Γ(a,A) = Γ(a) - γ(a,A), γ(a,A) = A^a e^-A Σ A^n / (a (a+1) ... (a+n))
+    // Γ(a,A) = Γ(a) - γ(a,A), γ(a,A) = A^a e^-A Σ A^n / (a (a+1) ... (a+n)); so 1/B = e^A A^-f Γ(a) - A Σ
     let term = 1 / a;
     let sum = term;
     for (let n = 1; n < 1000; n++) {
@@ -109,7 +109,8 @@ function inverseFractionalStart(f: number, traffic: number): number {
       sum += term;
       if (term < sum * 1e-17) break;
     }
-    return Math.exp(traffic - f * Math.log(traffic) + lnGamma(a)) - traffic * sum;
+    const logHead = traffic - f * Math.log(traffic) + lnGamma(a);
+    return logHead + Math.log1p(-traffic * sum * Math.exp(-logHead));
   }
   const fpmin = 1e-300;
   let b = traffic + 1 - a;
@@ -129,7 +130,7 @@ function inverseFractionalStart(f: number, traffic: number): number {
     if (Math.abs(del - 1) < 1e-16) break;
   }
   // Γ(a,A) = e^-A A^a h, so 1/B = A^-f e^A Γ(a,A) = A h
-  return traffic * h;
+  return Math.log(traffic * h);
 }
 
 function erlangBBoth(servers: number, traffic: number): { blocking: number; logBlocking: number } {
@@ -138,8 +139,7 @@ function erlangBBoth(servers: number, traffic: number): { blocking: number; logB
   const whole = Math.floor(servers);
   const frac = servers - whole;
   if (frac === 0) return walkUp(0, 0, traffic, whole);
-  const logStart = -Math.log(inverseFractionalStart(frac, traffic));
-  return walkUp(frac, logStart, traffic, whole);
+  return walkUp(frac, -logInverseFractionalStart(frac, traffic), traffic, whole);
 }
 
 /** ln B(x, A) for real x >= 0, A >= 0. */
@@ -177,8 +177,7 @@ export function erlangBStateDistribution(servers: number, traffic: number): numb
   const mode = Math.min(n, Math.floor(a));
   p[mode] = 1;
   for (let j = mode + 1; j <= n; j++) p[j] = (p[j - 1] * a) / j;
-  for (let j = mode - 1; j >= 0; j--) p[j] = a === 0 ? 0 : (p[j + 1] * (j + 1)) / a;
-  if (a === 0) p.fill(0), (p[0] = 1);
+  for (let j = mode - 1; j >= 0; j--) p[j] = (p[j + 1] * (j + 1)) / a; // mode = 0 when a = 0: loop skipped
   let sum = 0;
   for (let j = 0; j <= n; j++) sum += p[j];
   return Array.from(p, (v) => v / sum);
@@ -251,6 +250,7 @@ export function maxTrafficUnchecked(servers: number, target: number): { root: nu
   let lo = 0;
   let hi = servers / (1 - target);
   let x = Math.min(servers, hi * 0.5);
+  if (servers > 10) x = Math.min(hi * 0.999, Math.max(1e-3, servers - Math.sqrt(servers) * Math.sqrt(Math.max(0, -2 * Math.log(target * Math.sqrt(servers))))));
   for (let i = 1; i <= 200; i++) {
     const logB = logErlangBUnchecked(servers, x);
     const g = logB - logTarget;
@@ -259,10 +259,11 @@ export function maxTrafficUnchecked(servers: number, target: number): { root: nu
     else hi = x;
     const slope = servers / x - 1 + Math.exp(logB); // d ln B / dA
     let next = x - g / slope;
+    // a Newton step below rounding of x means x is the root (checked before the bracket test,
+    // since such a step lands on x itself, i.e. on the bracket end)
+    if (Math.abs(next - x) <= 1e-14 * x) return { root: stepDownToTarget(servers, next, target), iterations: i };
     if (!(next > lo && next < hi) || !Number.isFinite(next)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - x) <= 1e-15 * x || hi - lo <= 4e-16 * hi) {
-      return { root: stepDownToTarget(servers, next, target), iterations: i };
-    }
+    if (hi - lo <= 1e-15 * hi) return { root: stepDownToTarget(servers, next, target), iterations: i };
     x = next;
   }
   throw new Error("maxTrafficForBlocking: Newton iteration did not settle");

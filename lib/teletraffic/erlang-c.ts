@@ -49,7 +49,7 @@ export function erlangC(input: ErlangCInput): ErlangCResult {
     result.waitLimit = waitLimit;
     result.probabilityWaitWithinLimit = 1 - c * Math.exp((-(n - a) * waitLimit) / h);
   }
-  return assertFiniteResult(result as unknown as Record<string, unknown>, "erlangC") as unknown as ErlangCResult;
+  return assertFiniteResult(result, "erlangC");
 }
 
 export const MAX_QUEUE_POSITIONS = 1_000_000;

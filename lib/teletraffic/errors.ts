@@ -36,8 +36,8 @@ export function inputError(field: string, message: string): TeletrafficInputErro
 }
 
 /** Guards every public result: a NaN or infinity must never leave the library silently. */
-export function assertFiniteResult<T extends Record<string, unknown>>(result: T, method: string): T {
-  for (const [key, value] of Object.entries(result)) {
+export function assertFiniteResult<T extends object>(result: T, method: string): T {
+  for (const [key, value] of Object.entries(result as Record<string, unknown>)) {
     if (typeof value === "number" && !Number.isFinite(value)) {
       throw new Error(`${method}: internal numerical failure, ${key} = ${value}`);
     }

@@ -71,7 +71,7 @@ export function kaufmanRoberts(input: KaufmanRobertsInput): KaufmanRobertsResult
     const blocking = tail / total;
     return { traffic: cls.traffic, bandwidth: cls.bandwidth, blocking, carriedTraffic: cls.traffic * (1 - blocking) };
   });
-  for (const r of results) assertFiniteResult(r as unknown as Record<string, unknown>, "kaufmanRoberts");
+  for (const r of results) assertFiniteResult(r, "kaufmanRoberts");
   return assertFiniteResult(
     {
       method: "Kaufman–Roberts recursion (multi-rate loss, complete sharing)",

@@ -149,7 +149,7 @@ export function equivalentRandom(input: EquivalentRandomInput): EquivalentRandom
     result.overflowMean = overflow.mean;
     result.overflowVariance = overflow.variance;
   }
-  return assertFiniteResult(result as unknown as Record<string, unknown>, "equivalentRandom") as unknown as EquivalentRandomResult;
+  return assertFiniteResult(result, "equivalentRandom");
 }
 
 export const haywardInputSchema = z

@@ -38,4 +38,14 @@ test("an admin invites someone, who sets a password through the link and joins w
   await expect(invitee.getByText("already accepted")).toBeVisible();
   await page.goto("/w/kestrel-fen/audit");
   await expect(page.getByRole("row").filter({ hasText: email }).filter({ hasText: "invitation.accepted" })).toBeVisible();
+
+  // Admins read the captured mail in the development mailbox.
+  await page.goto("/w/kestrel-fen/mailbox");
+  await expect(page.getByRole("list", { name: "Captured mail" }).getByText(`to ${email}`)).toBeVisible();
+});
+
+test("the development mailbox is for admins only", async ({ page }) => {
+  await signInAs(page, "engineer");
+  await page.goto("/w/kestrel-fen/mailbox");
+  await expect(page.getByRole("heading", { name: "Your role does not allow this" })).toBeVisible();
 });

@@ -173,6 +173,11 @@ describe("state distribution and summary (truncated Poisson, Erlang 1917)", () =
     expect(s.carriedTraffic + s.lostTraffic).toBeCloseTo(20, 12);
     expect(s.occupancyPerServer).toBeCloseTo(s.carriedTraffic / 30, 14);
   });
+  it("subnormal traffic on a fractional group stays finite in log form (ln B ≈ x ln A − ln Γ(x+1), continuation at A → 0)", () => {
+    const l = logErlangB(2.5, 1e-310);
+    expect(Number.isFinite(l)).toBe(true);
+    expect(relativeError(l, 2.5 * Math.log(1e-310) - gammaln(3.5))).toBeLessThan(1e-12);
+  });
   it("edge conventions: B(0, A) = 1, B(N > 0, 0) = 0", () => {
     expect(erlangB(0, 5)).toBe(1);
     expect(erlangB(3, 0)).toBe(0);

@@ -174,6 +174,12 @@ describe("extended Erlang B with repeated attempts (Jewett & Shrago's recall mod
     const b = [0, 0.3, 0.6, 0.9].map((r) => extendedErlangB({ servers: 20, traffic: 18, recallFactor: r }).blocking);
     for (let i = 1; i < b.length; i++) expect(b[i]).toBeGreaterThan(b[i - 1]);
   });
+  it("heavy overload with r near 1 (slow contraction) is finished by the bracketed root and still meets the fixed point", () => {
+    const x = extendedErlangB({ servers: 100, traffic: 150, recallFactor: 0.999 });
+    expect(x.converged).toBe(true);
+    expect(relativeError(150 + 0.999 * x.offeredTotal * erlangB(100, x.offeredTotal), x.offeredTotal)).toBeLessThan(1e-10);
+    expect(x.carriedTraffic).toBeLessThan(100);
+  });
   it("an iteration cap that is too small is reported as not converged", () => {
     const r = extendedErlangB({ servers: 20, traffic: 25, recallFactor: 0.9, maxIterations: 3 });
     expect(r.converged).toBe(false);
