@@ -1,30 +1,17 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useState, useTransition } from "react";
-import { useForm, type Path } from "react-hook-form";
+import { useActionForm } from "@/components/forms/use-action-form";
 import { Button, Field, FormError, Input } from "@/components/ui";
 import { acceptInvitationSchema, type AcceptInvitationInput } from "@/lib/schemas/account";
 import { acceptInvitationAction, joinWithExistingAccountAction } from "@/app/invitations/[token]/actions";
 
 export function AcceptInvitationForm({ token, email }: { token: string; email: string }) {
-  const [message, setMessage] = useState<string | null>(null);
-  const [pending, startTransition] = useTransition();
-  const form = useForm<AcceptInvitationInput>({
-    resolver: zodResolver(acceptInvitationSchema),
+  const { form, onSubmit, message, pending, errors } = useActionForm<AcceptInvitationInput, Awaited<ReturnType<typeof acceptInvitationAction>>>({
+    schema: acceptInvitationSchema,
     defaultValues: { token, name: "", password: "", confirmPassword: "" },
+    action: acceptInvitationAction,
   });
-  const onSubmit = form.handleSubmit((values) =>
-    startTransition(async () => {
-      setMessage(null);
-      const result = await acceptInvitationAction(values);
-      if (result && !result.ok) {
-        for (const [field, text] of Object.entries(result.fields ?? {})) form.setError(field as Path<AcceptInvitationInput>, { message: text });
-        setMessage(result.message);
-      }
-    }),
-  );
-  const errors = form.formState.errors;
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Accept the invitation">
       <FormError>{message}</FormError>

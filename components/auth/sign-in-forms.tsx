@@ -1,18 +1,10 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useState, useTransition } from "react";
-import { useForm, type FieldValues, type Path, type UseFormSetError } from "react-hook-form";
+import { useState } from "react";
 import { Button, Field, FormError, Input } from "@/components/ui";
+import { useActionForm } from "@/components/forms/use-action-form";
 import { signInLinkSchema, signInSchema, type SignInInput, type SignInLinkInput } from "@/lib/schemas/account";
 import { requestSignInLink, signInWithPassword } from "@/app/sign-in/actions";
-import type { ActionResult } from "@/lib/schemas/validation";
-
-function applyResult<T extends FieldValues>(result: ActionResult | undefined, setError: UseFormSetError<T>, setMessage: (m: string | null) => void) {
-  if (!result || result.ok) return;
-  for (const [field, message] of Object.entries(result.fields ?? {})) setError(field as Path<T>, { message });
-  setMessage(result.message);
-}
 
 export function SignInForms({ returnTo }: { returnTo?: string }) {
   const [mode, setMode] = useState<"password" | "link">("password");
@@ -38,22 +30,18 @@ export function SignInForms({ returnTo }: { returnTo?: string }) {
 }
 
 function PasswordForm({ returnTo }: { returnTo?: string }) {
-  const [message, setMessage] = useState<string | null>(null);
-  const [pending, startTransition] = useTransition();
-  const form = useForm<SignInInput>({ resolver: zodResolver(signInSchema), defaultValues: { email: "", password: "" } });
-  const onSubmit = form.handleSubmit((values) =>
-    startTransition(async () => {
-      setMessage(null);
-      applyResult(await signInWithPassword(values, returnTo), form.setError, setMessage);
-    }),
-  );
+  const { form, onSubmit, message, pending, errors } = useActionForm<SignInInput, Awaited<ReturnType<typeof signInWithPassword>>>({
+    schema: signInSchema,
+    defaultValues: { email: "", password: "" },
+    action: (values) => signInWithPassword(values, returnTo),
+  });
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Sign in with password">
       <FormError>{message}</FormError>
-      <Field label="E-mail" error={form.formState.errors.email?.message}>
+      <Field label="E-mail" error={errors.email?.message}>
         <Input type="email" autoComplete="email" {...form.register("email")} />
       </Field>
-      <Field label="Password" error={form.formState.errors.password?.message}>
+      <Field label="Password" error={errors.password?.message}>
         <Input type="password" autoComplete="current-password" {...form.register("password")} />
       </Field>
       <Button type="submit" pending={pending}>
@@ -64,19 +52,15 @@ function PasswordForm({ returnTo }: { returnTo?: string }) {
 }
 
 function LinkForm({ returnTo }: { returnTo?: string }) {
-  const [message, setMessage] = useState<string | null>(null);
-  const [pending, startTransition] = useTransition();
-  const form = useForm<SignInLinkInput>({ resolver: zodResolver(signInLinkSchema), defaultValues: { email: "" } });
-  const onSubmit = form.handleSubmit((values) =>
-    startTransition(async () => {
-      setMessage(null);
-      applyResult(await requestSignInLink(values, returnTo), form.setError, setMessage);
-    }),
-  );
+  const { form, onSubmit, message, pending, errors } = useActionForm<SignInLinkInput, Awaited<ReturnType<typeof requestSignInLink>>>({
+    schema: signInLinkSchema,
+    defaultValues: { email: "" },
+    action: (values) => requestSignInLink(values, returnTo),
+  });
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-label="Sign in with an e-mail link">
       <FormError>{message}</FormError>
-      <Field label="E-mail" hint="We send a one-time link that signs you in." error={form.formState.errors.email?.message}>
+      <Field label="E-mail" hint="We send a one-time link that signs you in." error={errors.email?.message}>
         <Input type="email" autoComplete="email" {...form.register("email")} />
       </Field>
       <Button type="submit" pending={pending}>

@@ -110,6 +110,7 @@ export function simulationTable(result: SimulationResult): string {
   lines.splice(1, 0, widths.map((w) => "-".repeat(w)).join("  "));
   return [
     `Simulation: ${result.replications} replications, ${result.calls} calls, ${result.events} events, seed ${result.seed}, offered ${fmt(result.offeredTraffic)} E`,
+    `Warm-up per replication: ${fmt(result.warmupCalls.mean)} calls (${result.warmupCalls.min} .. ${result.warmupCalls.max}), ${fmt(result.warmupTime.mean)} time units`,
     "",
     ...lines,
     "",

@@ -9,3 +9,7 @@ export const invitationCreateSchema = z.object({
 export type InvitationCreateInput = z.input<typeof invitationCreateSchema>;
 
 export const invitationValidityDays = 7;
+
+export const memberRoleChangeSchema = z.object({
+  role: z.enum(workspaceRoles, { error: "Choose a role: admin, engineer, reviewer or viewer." }),
+});

@@ -26,6 +26,8 @@ export interface ReplicationStats {
   busyIntegral: number;
   orbitIntegral: number;
   queueIntegral: number;
+  /** Time with all servers busy (= occupancy[servers], kept when the vector is folded away). */
+  allBusyTime: number;
   /** Time spent at each busy count 0..servers. */
   occupancy: Float64Array;
   /** Events processed, warm-up included. */
@@ -778,6 +780,7 @@ export class Replication {
       busyIntegral: this.busyIntegral,
       orbitIntegral: this.orbitIntegral,
       queueIntegral: this.queueIntegral,
+      allBusyTime: this.occupancy[this.servers],
       occupancy: this.occupancy,
       events: this.events,
       warmupCalls: this.warmupCallsTarget,

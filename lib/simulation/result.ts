@@ -43,9 +43,23 @@ export const simulationResultSchema = z.object({
   occupancy: z.array(z.number()),
   /** Fresh calls discarded per replication as warm-up (MSER-5 when "auto"): mean, min, max. */
   warmupCalls: z.object({ mean: z.number(), min: z.number(), max: z.number() }),
+  /** Simulated time discarded per replication as warm-up. */
+  warmupTime: z.object({ mean: z.number(), min: z.number(), max: z.number() }),
   references: z.array(referenceSchema),
 });
 export type SimulationResult = z.infer<typeof simulationResultSchema>;
+
+function summary(values: number[]): { mean: number; min: number; max: number } {
+  let sum = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  for (const v of values) {
+    sum += v;
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  return { mean: sum / values.length, min, max };
+}
 
 function interval(y: number[], x: number[], confidence: number): Interval {
   const ci = ratioInterval(y, x, confidence);
@@ -62,7 +76,7 @@ function interval(y: number[], x: number[], confidence: number): Interval {
 }
 
 /** Combines replications (in index order) into the stored result. */
-export function buildResult(scenario: Scenario, stats: ReplicationStats[]): SimulationResult {
+export function buildResult(scenario: Scenario, stats: ReplicationStats[], occupancyTotal?: Float64Array): SimulationResult {
   const c = scenario.run.confidence;
   const col = (f: (s: ReplicationStats) => number) => stats.map(f);
   const calls = col((s) => s.calls);
@@ -72,9 +86,10 @@ export function buildResult(scenario: Scenario, stats: ReplicationStats[]): Simu
   const occupancy = new Array<number>(servers + 1).fill(0);
   let totalTime = 0;
   for (const s of stats) {
-    for (let k = 0; k <= servers; k++) occupancy[k] += s.occupancy[k];
+    if (!occupancyTotal) for (let k = 0; k <= servers; k++) occupancy[k] += s.occupancy[k];
     totalTime += s.time;
   }
+  if (occupancyTotal) for (let k = 0; k <= servers; k++) occupancy[k] = occupancyTotal[k];
   const warmups = col((s) => s.warmupCalls);
   const result: SimulationResult = {
     seed: scenario.run.seed,
@@ -84,10 +99,11 @@ export function buildResult(scenario: Scenario, stats: ReplicationStats[]): Simu
     events: col((s) => s.events).reduce((a, b) => a + b, 0),
     offeredTraffic: offeredTraffic(scenario),
     callCongestion: interval(col((s) => s.blockedFirst), calls, c),
-    timeCongestion: interval(col((s) => s.occupancy[servers]), time, c),
+    timeCongestion: interval(col((s) => s.allBusyTime), time, c),
     carriedTraffic: interval(col((s) => s.busyIntegral), time, c),
     occupancy: occupancy.map((v) => (totalTime > 0 ? v / totalTime : 0)),
-    warmupCalls: { mean: warmups.reduce((a, b) => a + b, 0) / warmups.length, min: Math.min(...warmups), max: Math.max(...warmups) },
+    warmupCalls: summary(warmups),
+    warmupTime: summary(col((s) => s.warmupTime)),
     references: referencesFor(scenario),
   };
   if (scenario.retrials) {

@@ -1,12 +1,15 @@
 import { z } from "zod";
-import { assertFiniteResult, inputError, parseInput } from "./errors";
+import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { equivalentRandomUnchecked, overflowMomentsUnchecked } from "./overflow";
-import { erlangBUnchecked } from "./erlang-b";
-import { solveEnvironmentLossChain } from "./qbd";
+import { erlangBStateDistribution, erlangBUnchecked } from "./erlang-b";
+import { gaussSeidelEnvironmentLossChain, solveEnvironmentLossChain } from "./qbd";
 
 export const MAX_OVERFLOW_STATES = 200_000;
-/** Level reduction costs (N+1)·K³ for K primary states; beyond this it would take seconds. */
+/** Level reduction costs (N+1)·K³ for K primary states; beyond this Gauss–Seidel is used instead. */
 export const MAX_OVERFLOW_WORK = 200_000_000;
+/** Gauss–Seidel budget: sweeps × states. */
+const MAX_GAUSS_SEIDEL_WORK = 3_000_000_000;
+const GAUSS_SEIDEL_TOLERANCE = 1e-14;
 
 export const overflowLossInputSchema = z
   .object({
@@ -27,8 +30,6 @@ export const overflowLossInputSchema = z
     const states = k * (v.servers + 1);
     if (states > MAX_OVERFLOW_STATES) {
       ctx.addIssue({ code: "custom", path: ["servers"], message: `state space Π(n_i + 1) × (N + 1) = ${states} exceeds ${MAX_OVERFLOW_STATES}` });
-    } else if ((v.servers + 1) * k * k * k > MAX_OVERFLOW_WORK) {
-      ctx.addIssue({ code: "custom", path: ["primaries"], message: `(N + 1) × K³ = ${(v.servers + 1) * k ** 3} exceeds ${MAX_OVERFLOW_WORK}, with K = Π(n_i + 1) = ${k} primary states` });
     }
   })
   .describe("overflow network: primary groups with own Poisson traffic, overflow offered to one final group, exponential holding with a common mean");
@@ -59,7 +60,8 @@ export interface OverflowLossResult {
 /**
  * Exact CTMC of the overflow network. The primaries evolve on their own (their overflow does not
  * feed back), so the final group sees a Markov-modulated Poisson stream with the joint primary
- * state as phase; the chain is solved exactly by the level reduction of qbd.ts. Equivalent random
+ * state as phase; the chain is solved by the level reduction of qbd.ts while (N+1)·K³ is small,
+ * otherwise by Gauss–Seidel with a convergence and residual check. Equivalent random
  * and Hayward are given for the same combined stream (summed Riordan moments) for comparison.
  */
 export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult {
@@ -72,18 +74,59 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
     stride.push(acc);
     acc *= s;
   }
-  const phaseRates = new Float64Array(k * k);
-  const up = new Float64Array(k);
   const digit = (phase: number, i: number) => Math.floor(phase / stride[i]) % sizes[i];
+  const up = new Float64Array(k);
+  // sparse phase process of the independent primaries
+  const inCount = new Int32Array(k + 1);
+  const edges: Array<[number, number, number]> = [];
+  const outRate = new Float64Array(k);
   for (let phase = 0; phase < k; phase++) {
     primaries.forEach((p, i) => {
       const busy = digit(phase, i);
-      if (busy < p.servers) phaseRates[phase * k + phase + stride[i]] += p.traffic;
+      if (busy < p.servers) edges.push([phase, phase + stride[i], p.traffic]);
       else up[phase] += p.traffic;
-      if (busy > 0) phaseRates[phase * k + phase - stride[i]] += busy;
+      if (busy > 0) edges.push([phase, phase - stride[i], busy]);
     });
   }
-  const pi = solveEnvironmentLossChain(n, k, phaseRates, up, 1);
+  for (const [from, to, rate] of edges) {
+    inCount[to + 1]++;
+    outRate[from] += rate;
+  }
+  const inStart = new Int32Array(k + 1);
+  for (let l = 0; l < k; l++) inStart[l + 1] = inStart[l] + inCount[l + 1];
+  const fill = Int32Array.from(inStart);
+  const inFrom = new Int32Array(edges.length);
+  const inRate = new Float64Array(edges.length);
+  for (const [from, to, rate] of edges) {
+    inFrom[fill[to]] = from;
+    inRate[fill[to]++] = rate;
+  }
+  let pi: Float64Array;
+  let solver: string;
+  if ((n + 1) * k ** 3 <= MAX_OVERFLOW_WORK) {
+    const phaseRates = new Float64Array(k * k);
+    for (const [from, to, rate] of edges) phaseRates[from * k + to] += rate;
+    pi = solveEnvironmentLossChain(n, k, phaseRates, up, 1);
+    solver = "direct level reduction";
+  } else {
+    // start from the exact primary marginal (product of truncated Poisson) times a Poisson guess for the final group
+    const marginals = primaries.map((p) => erlangBStateDistribution(p.servers, p.traffic));
+    let overflowMean = 0;
+    for (const p of primaries) overflowMean += overflowMomentsUnchecked(p.traffic, p.servers).mean;
+    const finalGuess = erlangBStateDistribution(n, overflowMean);
+    const initial = new Float64Array(k * (n + 1));
+    for (let phase = 0; phase < k; phase++) {
+      let theta = 1;
+      primaries.forEach((_, i) => (theta *= marginals[i][digit(phase, i)]));
+      for (let j = 0; j <= n; j++) initial[j * k + phase] = theta * finalGuess[j] + 1e-300;
+    }
+    const states = k * (n + 1);
+    const maxSweeps = Math.max(100, Math.floor(MAX_GAUSS_SEIDEL_WORK / states));
+    const solved = gaussSeidelEnvironmentLossChain(n, { phases: k, inStart, inFrom, inRate, outRate }, up, 1, initial, GAUSS_SEIDEL_TOLERANCE, maxSweeps);
+    if (!solved) throw new TeletrafficConvergenceError(`overflowLossSystem: Gauss–Seidel did not converge within ${maxSweeps} sweeps`, maxSweeps);
+    pi = solved.pi;
+    solver = `Gauss–Seidel (${solved.sweeps} sweeps, L1 change <= ${GAUSS_SEIDEL_TOLERANCE}, residual ${solved.residual.toExponential(1)})`;
+  }
   let offered = 0;
   let lost = 0;
   let timeCongestion = 0;
@@ -118,7 +161,7 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   if (!(offered > 0)) throw inputError("primaries", "no traffic overflows to the final group");
   return assertFiniteResult(
     {
-      method: "exact overflow CTMC (primaries as environment, level reduction) beside equivalent random and Hayward",
+      method: `exact overflow CTMC (primaries as environment), ${solver}; equivalent random and Hayward beside it`,
       servers: n,
       primaryStates: k,
       states: k * (n + 1),

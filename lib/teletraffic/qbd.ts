@@ -189,3 +189,77 @@ export function phaseStationary(phaseRates: Float64Array, k: number): Float64Arr
   if (!reach(true) || !reach(false)) return null;
   return gthStationary(phaseRates, k);
 }
+
+/** Sparse autonomous phase process: transitions into phase l are inFrom/inRate[inStart[l] .. inStart[l+1]). */
+export interface SparsePhaseProcess {
+  phases: number;
+  inStart: Int32Array;
+  inFrom: Int32Array;
+  inRate: Float64Array;
+  outRate: Float64Array;
+}
+
+/**
+ * Same chain as solveEnvironmentLossChain, solved by Gauss–Seidel sweeps (level by level, phase by
+ * phase) for phase spaces too large for dense k×k blocks. Stops when a sweep changes π by at most
+ * `tolerance` in L1 and the residual ‖πQ‖₁ / max rate is below 1e-11; returns null if that does
+ * not happen within maxSweeps (the caller reports non-convergence; no partial result is used).
+ */
+export function gaussSeidelEnvironmentLossChain(
+  servers: number,
+  process: SparsePhaseProcess,
+  upRates: Float64Array,
+  mu: number,
+  initial: Float64Array,
+  tolerance: number,
+  maxSweeps: number,
+): { pi: Float64Array; sweeps: number; residual: number } | null {
+  const k = process.phases;
+  const n = servers;
+  const { inStart, inFrom, inRate, outRate } = process;
+  const pi = Float64Array.from(initial);
+  let maxRate = 0;
+  for (let l = 0; l < k; l++) maxRate = Math.max(maxRate, outRate[l] + upRates[l] + n * mu);
+  for (let sweep = 1; sweep <= maxSweeps; sweep++) {
+    let change = 0;
+    for (let j = 0; j <= n; j++) {
+      const base = j * k;
+      for (let l = 0; l < k; l++) {
+        let inflow = 0;
+        for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
+        if (j > 0) inflow += pi[base - k + l] * upRates[l];
+        if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
+        const out = outRate[l] + (j < n ? upRates[l] : 0) + j * mu;
+        const value = out > 0 ? inflow / out : pi[base + l];
+        change += Math.abs(value - pi[base + l]);
+        pi[base + l] = value;
+      }
+    }
+    let total = 0;
+    for (let s = 0; s < pi.length; s++) total += pi[s];
+    for (let s = 0; s < pi.length; s++) pi[s] /= total;
+    if (change / total <= tolerance) {
+      const residual = environmentResidual(n, process, upRates, mu, pi) / maxRate;
+      if (residual <= 1e-11) return { pi, sweeps: sweep, residual };
+    }
+  }
+  return null;
+}
+
+/** ‖π Q‖₁ for the environment loss chain. */
+function environmentResidual(n: number, process: SparsePhaseProcess, upRates: Float64Array, mu: number, pi: Float64Array): number {
+  const k = process.phases;
+  const { inStart, inFrom, inRate, outRate } = process;
+  let residual = 0;
+  for (let j = 0; j <= n; j++) {
+    const base = j * k;
+    for (let l = 0; l < k; l++) {
+      let inflow = 0;
+      for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
+      if (j > 0) inflow += pi[base - k + l] * upRates[l];
+      if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
+      residual += Math.abs(inflow - pi[base + l] * (outRate[l] + (j < n ? upRates[l] : 0) + j * mu));
+    }
+  }
+  return residual;
+}

@@ -39,6 +39,13 @@ test("an admin invites someone, who sets a password through the link and joins w
   await page.goto("/w/kestrel-fen/audit");
   await expect(page.getByRole("row").filter({ hasText: email }).filter({ hasText: "invitation.accepted" })).toBeVisible();
 
+  // The admin changes the new member's role; the member's next page load reflects it.
+  await page.goto("/w/kestrel-fen/members");
+  await page.getByLabel(`Role of ${email}`).selectOption("viewer");
+  await expect(page.getByText("Role changed to viewer.")).toBeVisible();
+  await invitee.reload();
+  await expect(invitee.getByRole("list", { name: "What your role allows" }).getByText("Queue simulation runs (not allowed)")).toBeAttached();
+
   // Admins read the captured mail in the development mailbox.
   await page.goto("/w/kestrel-fen/mailbox");
   await expect(page.getByRole("list", { name: "Captured mail" }).getByText(`to ${email}`)).toBeVisible();

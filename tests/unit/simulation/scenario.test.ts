@@ -106,7 +106,7 @@ describe("JSON Schema of the scenario file", () => {
     const result = {
       seed: 1, confidence: 0.95, replications: 2, calls: 10, events: 20, offeredTraffic: 1,
       callCongestion: interval, timeCongestion: interval, carriedTraffic: interval,
-      occupancy: [0.5, 0.5], warmupCalls: { mean: 0, min: 0, max: 0 },
+      occupancy: [0.5, 0.5], warmupCalls: { mean: 0, min: 0, max: 0 }, warmupTime: { mean: 0, min: 0, max: 0 },
       references: [{ method: "Erlang B", assumptions: "x", exact: true, callCongestion: 0.5 }],
     };
     expect(simulationResultSchema.safeParse(result).success).toBe(true);

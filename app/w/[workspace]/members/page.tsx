@@ -7,6 +7,7 @@ import { roleAllows } from "@/lib/auth/roles";
 import { Card, CardBody, CardHeader, CardTitle, EmptyState, PageHeader, RoleBadge, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
 import { InviteForm } from "@/components/workspace/invite-form";
 import { RevokeInvitationButton } from "@/components/workspace/revoke-invitation-button";
+import { MemberControls } from "@/components/workspace/member-controls";
 
 export const metadata: Metadata = { title: "Members" };
 
@@ -17,6 +18,7 @@ export default async function MembersPage({ params }: { params: Promise<{ worksp
   const access = await guardPage(() => requireWorkspaceAccess(slug, "member.read"), `/w/${slug}/members`);
   const db = getDatabase();
   const canInvite = roleAllows(access.role, "member.invite");
+  const canManage = roleAllows(access.role, "member.manage");
   const [members, invitations] = await Promise.all([listMembers(db, access.workspace.id), canInvite ? listOpenInvitations(db, access.workspace.id) : []]);
   return (
     <div className="flex flex-col gap-6">
@@ -35,9 +37,7 @@ export default async function MembersPage({ params }: { params: Promise<{ worksp
             <TR key={m.userId}>
               <TD>{m.name ?? "—"}</TD>
               <TD>{m.email}</TD>
-              <TD>
-                <RoleBadge role={m.role} />
-              </TD>
+              <TD>{canManage ? <MemberControls workspaceSlug={slug} userId={m.userId} email={m.email} role={m.role} /> : <RoleBadge role={m.role} />}</TD>
               <TD>{dateFormat.format(m.joinedAt)}</TD>
             </TR>
           ))}
