@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { z } from "zod";
 import { analyticOperations, type AnalyticOperationName } from "../teletraffic/operations";
-import { CliUsageError, formatTable, type CliCommand, type CliOutput } from "./command";
+import { CliUsageError, formatNumber, formatTable, type CliCommand, type CliOutput } from "./command";
 
 /** Flags that always hold a list, even when given a single number. */
 const listFlags: Partial<Record<AnalyticOperationName, string[]>> = {
@@ -91,13 +91,9 @@ export function parseOperationFlags(name: AnalyticOperationName, argv: string[])
 function flatten(value: unknown, prefix: string, rows: Array<[string, string | number]>): void {
   if (typeof value === "number" || typeof value === "string") rows.push([prefix, value]);
   else if (typeof value === "boolean") rows.push([prefix, String(value)]);
-  else if (Array.isArray(value) && value.every((v) => typeof v === "number")) rows.push([prefix, value.map((v) => formatTableNumber(v)).join(", ")]);
+  else if (Array.isArray(value) && value.every((v) => typeof v === "number")) rows.push([prefix, value.map((v) => formatNumber(v)).join(", ")]);
   else if (Array.isArray(value)) value.forEach((v, i) => flatten(v, `${prefix}[${i}]`, rows));
   else if (value && typeof value === "object") for (const [k, v] of Object.entries(value)) flatten(v, prefix ? `${prefix}.${k}` : k, rows);
-}
-
-function formatTableNumber(v: number): string {
-  return formatTable([["", v]]).trim();
 }
 
 function describeInput(name: string, schema: z.ZodType): CliOutput {

@@ -78,6 +78,7 @@ const REFERENCE_FIELD: Partial<Record<keyof SimulationResult, string>> = {
   callCongestion: "callCongestion",
   timeCongestion: "timeCongestion",
   carriedTraffic: "carriedTraffic",
+  attemptCongestion: "attemptCongestion",
   lossProbability: "lossProbability",
   waitingProbability: "waitingProbability",
   meanWait: "meanWait",

@@ -238,6 +238,7 @@ export class Replication {
           if (j !== i) s += mmpp.switching[i][j];
           jump[j] = out > 0 ? s / out : j >= i ? 1 : 0;
         }
+        jump[k - 1] = 1; // rounding must not let a draw fall past the last phase
         this.phaseJump.push(jump);
       }
     } else if (a.process === "renewal") {
@@ -352,7 +353,10 @@ export class Replication {
     }
   }
 
-  /** Exact inversion of the integrated piecewise-constant rate (Cinlar 1975, sec. 4.7). */
+  /**
+   * Exact inversion of the integrated piecewise-constant rate: a unit-rate Poisson process run on
+   * the clock of the cumulative rate (Cinlar, Introduction to Stochastic Processes, 1975).
+   */
   private nextTimeVaryingArrival(): number {
     let need = -Math.log(this.arrivalRng.next());
     let now = this.t;

@@ -12,7 +12,7 @@ export interface Interval {
  * Ratio estimator across independent replications: R = sum(y) / sum(x), with the
  * delta-method variance Var(R) ~ sum((y_i - R x_i)^2) / (n (n-1) xbar^2) and a Student t
  * interval on n-1 degrees of freedom (Law, Simulation Modeling and Analysis, 5th ed., 2015,
- * sec. 9.5; Cochran, Sampling Techniques, 3rd ed., 1977, sec. 6.4). Used for every measure:
+ * ch. 9; Cochran, Sampling Techniques, 3rd ed., 1977, ch. 6). Used for every measure:
  * with equal x_i (fixed calls per replication) it reduces exactly to the mean of the
  * per-replication ratios and their sample variance, and it stays right when x_i vary
  * (horizon runs, batches overshooting the call count, measured time per replication).

@@ -10,6 +10,8 @@ export const referenceSchema = z.object({
   /** True when the scenario satisfies every assumption of the method, so the simulation should agree within its CI. */
   exact: z.boolean(),
   callCongestion: z.number().optional(),
+  /** Refused attempts / all attempts (retrial models). */
+  attemptCongestion: z.number().optional(),
   timeCongestion: z.number().optional(),
   carriedTraffic: z.number().optional(),
   lossProbability: z.number().optional(),
@@ -186,6 +188,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
   const exponentialHolding = scenario.holding.law === "exponential";
   const retrying = scenario.retrials !== undefined && scenario.retrials.persistence > 0;
   const pureLoss = scenario.waitingPositions === 0 && !retrying;
+  const lossOnly = scenario.waitingPositions === 0; // the loss-system methods need it
   const traffic = meanCallRate(scenario) * h;
   const out: Reference[] = [];
 
@@ -193,7 +196,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
     attempt(
       "Erlang B",
       "Poisson arrivals at the same mean offered traffic, any holding-time law (insensitivity), blocked calls cleared, no waiting",
-      a.process === "poisson" && pureLoss,
+      (a.process === "poisson" || (a.process === "renewal" && a.interarrival.law === "exponential")) && pureLoss,
       () => {
         const b = tt.erlangB(n, traffic);
         return { callCongestion: b, timeCongestion: b, carriedTraffic: traffic * (1 - b) };
@@ -210,7 +213,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
     );
   }
 
-  if (a.process === "renewal") {
+  if (a.process === "renewal" && lossOnly) {
     const law = renewalLaw(a.interarrival);
     if (law)
       out.push(
@@ -222,7 +225,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
   }
 
   const mmpp = mmppOf(a);
-  if (mmpp) {
+  if (mmpp && lossOnly) {
     out.push(
       attempt("MMPP/M/N/N exact chain", "Markov-modulated Poisson arrivals, exponential holding, blocked calls cleared", exponentialHolding && pureLoss, () => {
         const m = tt.mmppLossSystem({ servers: n, rates: mmpp.rates, switching: mmpp.switching, meanHolding: h });
@@ -235,7 +238,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
   let peaked: { mean: number; variance: number; what: string } | undefined;
   if (mmpp) peaked = { ...mmppOfferedMoments(mmpp.rates, mmpp.switching, h), what: "MMPP" };
   if (a.process === "batch") peaked = { mean: traffic, variance: traffic * batchPeakedness(a.batchSize), what: "batch Poisson" };
-  if (peaked && peaked.variance / peaked.mean > 1 + 1e-9) {
+  if (peaked && lossOnly && peaked.variance / peaked.mean > 1 + 1e-9) {
     const { mean, variance, what } = peaked;
     const z = variance / mean;
     out.push(
@@ -252,7 +255,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
     );
   }
 
-  if (a.process === "batch" && a.batchSize.law === "geometric") {
+  if (a.process === "batch" && a.batchSize.law === "geometric" && lossOnly) {
     const batchSize = a.batchSize;
     out.push(
       attempt(
@@ -267,7 +270,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
     );
   }
 
-  if (a.process === "overflow") {
+  if (a.process === "overflow" && lossOnly) {
     out.push(
       attempt(
         "overflow network exact chain",
@@ -281,7 +284,7 @@ export function referencesFor(scenario: Scenario): Reference[] {
     );
   }
 
-  if (a.process === "overflow") {
+  if (a.process === "overflow" && lossOnly) {
     const { mean, variance } = overflowStreamMoments(a.primaries);
     const singlePrimary = a.primaries.length === 1;
     out.push(
@@ -318,7 +321,8 @@ export function referencesFor(scenario: Scenario): Reference[] {
         false,
         () => {
           const e = tt.extendedErlangB({ servers: n, traffic, recallFactor: r.persistence });
-          return { callCongestion: e.blocking, lossProbability: e.probabilityFreshCallLost, carriedTraffic: e.carriedTraffic };
+          // With all attempts Poisson (its assumption) fresh calls and retries see the same blocking.
+          return { callCongestion: e.blocking, attemptCongestion: e.blocking, lossProbability: e.probabilityFreshCallLost, carriedTraffic: e.carriedTraffic };
         },
       ),
     );

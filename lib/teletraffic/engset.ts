@@ -90,7 +90,7 @@ export function engset(input: EngsetInput): EngsetResult {
       timeCongestion: r.timeCongestion,
       callCongestion: r.callCongestion,
       trafficCongestion: r.trafficCongestion,
-      callAttemptRate: (idleRate * r.attempts),
+      callAttemptRate: idleRate * r.attempts,
     },
     "engset",
   );

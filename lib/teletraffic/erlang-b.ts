@@ -55,12 +55,12 @@ export const minServersInputSchema = z
 export type MinServersInput = z.infer<typeof minServersInputSchema>;
 
 // ---------------------------------------------------------------------------------------------
-// Unchecked kernels (inputs already validated). All work on ln B so that nothing underflows.
+// Unchecked kernels (inputs already validated). Below B = 1e-280 they carry ln B, so nothing underflows.
 
 const TINY = 1e-280;
 const LOG_TINY = Math.log(TINY);
 
-/** ln B after walking the recursion B(x+1) = A B(x) / (x + 1 + A B(x)) `steps` times from ln B(x0). */
+/** B and ln B after walking B(x+1) = A B(x) / (x + 1 + A B(x)) `steps` times from ln B(x0). */
 function walkUp(x0: number, logB0: number, traffic: number, steps: number): { blocking: number; logBlocking: number } {
   let x = x0;
   let k = 0;

@@ -23,16 +23,111 @@
  *   batchPoissonLossSystem({ servers, traffic, meanBatchSize, admission: "partial" | "all-or-nothing" }): BatchLossResult
  *   overflowLossSystem({ primaries: [{ traffic, servers }], servers }): OverflowLossResult
  *   kaufmanRoberts({ capacity, classes: [{ traffic, bandwidth }] }): KaufmanRobertsResult
+ *   analyticOperations[name].evaluate(input): Record<string, unknown>
+ *
+ * Iterative methods that cannot meet their tolerance throw TeletrafficConvergenceError (kind
+ * "convergence"); extendedErlangB reports `converged` instead.
  */
-export * from "./errors";
-export * from "./erlang-b";
-export * from "./erlang-c";
-export * from "./engset";
-export * from "./overflow";
-export * from "./retrials";
-export * from "./renewal";
-export * from "./mmpp";
-export * from "./batch";
-export * from "./overflow-chain";
-export * from "./multi-rate";
-export * from "./operations";
+export { TeletrafficConvergenceError, TeletrafficInputError } from "./errors";
+export {
+  erlangB,
+  erlangBInputSchema,
+  erlangBStateDistribution,
+  erlangBStateDistributionInputSchema,
+  erlangBSummary,
+  logErlangB,
+  maxTrafficForBlocking,
+  maxTrafficInputSchema,
+  minServersForBlocking,
+  minServersInputSchema,
+  realServersForBlocking,
+  MAX_DISTRIBUTION_SERVERS,
+  MAX_SERVERS,
+  MAX_TRAFFIC,
+  type ErlangBInput,
+  type ErlangBStateDistributionInput,
+  type ErlangBSummary,
+  type MaxTrafficInput,
+  type MaxTrafficResult,
+  type MinServersInput,
+  type MinServersResult,
+  type RealServersResult,
+} from "./erlang-b";
+export {
+  erlangC,
+  erlangCInputSchema,
+  finiteQueue,
+  finiteQueueInputSchema,
+  MAX_QUEUE_POSITIONS,
+  type ErlangCInput,
+  type ErlangCResult,
+  type FiniteQueueInput,
+  type FiniteQueueResult,
+} from "./erlang-c";
+export {
+  engset,
+  engsetIdleRateForOfferedTraffic,
+  engsetIdleRateInputSchema,
+  engsetInputSchema,
+  MAX_SOURCES,
+  type EngsetIdleRateInput,
+  type EngsetIdleRateResult,
+  type EngsetInput,
+  type EngsetResult,
+} from "./engset";
+export {
+  equivalentRandom,
+  equivalentRandomInputSchema,
+  haywardBlocking,
+  haywardInputSchema,
+  overflowMoments,
+  overflowMomentsInputSchema,
+  MAX_EQUIVALENT_TRAFFIC,
+  MAX_STREAM_MEAN,
+  MAX_STREAM_VARIANCE,
+  type EquivalentRandomInput,
+  type EquivalentRandomResult,
+  type HaywardInput,
+  type HaywardResult,
+  type OverflowMoments,
+  type OverflowMomentsInput,
+} from "./overflow";
+export { extendedErlangB, extendedErlangBInputSchema, type ExtendedErlangBInput, type ExtendedErlangBResult } from "./retrials";
+export {
+  balancedHyperexponential,
+  balancedHyperexponentialInputSchema,
+  interarrivalLawSchema,
+  renewalLossInputSchema,
+  renewalLossSystem,
+  MAX_RENEWAL_SERVERS,
+  type InterarrivalLaw,
+  type RenewalLossInput,
+  type RenewalLossResult,
+} from "./renewal";
+export { mmppLossInputSchema, mmppLossSystem, MAX_MMPP_STATES, type MmppLossInput, type MmppLossResult } from "./mmpp";
+export { batchLossInputSchema, batchPoissonLossSystem, MAX_BATCH_SERVERS, type BatchLossInput, type BatchLossResult } from "./batch";
+export {
+  overflowLossInputSchema,
+  overflowLossSystem,
+  MAX_OVERFLOW_STATES,
+  MAX_OVERFLOW_WORK,
+  type OverflowLossInput,
+  type OverflowLossResult,
+} from "./overflow-chain";
+export {
+  kaufmanRoberts,
+  kaufmanRobertsInputSchema,
+  MAX_CAPACITY,
+  MAX_CLASSES,
+  type KaufmanRobertsClassResult,
+  type KaufmanRobertsInput,
+  type KaufmanRobertsResult,
+} from "./multi-rate";
+export {
+  analyticOperationNames,
+  analyticOperations,
+  erlangBOperationInputSchema,
+  type AnalyticOperation,
+  type AnalyticOperationName,
+  type ErlangBOperationInput,
+} from "./operations";

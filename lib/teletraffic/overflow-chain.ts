@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
+import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError, TeletrafficInputError } from "./errors";
 import { equivalentRandomUnchecked, overflowMomentsUnchecked } from "./overflow";
 import { erlangBStateDistribution, erlangBUnchecked } from "./erlang-b";
 import { gaussSeidelEnvironmentLossChain, solveEnvironmentLossChain } from "./qbd";
@@ -8,7 +8,7 @@ export const MAX_OVERFLOW_STATES = 200_000;
 /** Level reduction costs (N+1)·K³ for K primary states; beyond this Gauss–Seidel is used instead. */
 export const MAX_OVERFLOW_WORK = 200_000_000;
 /** Gauss–Seidel budget: sweeps × states. */
-const MAX_GAUSS_SEIDEL_WORK = 3_000_000_000;
+const MAX_GAUSS_SEIDEL_WORK = 1_000_000_000;
 const GAUSS_SEIDEL_TOLERANCE = 1e-14;
 
 export const overflowLossInputSchema = z
@@ -155,7 +155,13 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   }
   const peakedness = variance / mean;
   if (peakedness < 1 - 1e-9) throw new Error("overflowLossSystem: summed overflow peakedness below 1");
-  const er = equivalentRandomUnchecked(mean, Math.max(variance, mean));
+  let er: ReturnType<typeof equivalentRandomUnchecked>;
+  try {
+    er = equivalentRandomUnchecked(mean, Math.max(variance, mean));
+  } catch (error) {
+    if (error instanceof TeletrafficInputError) throw inputError("primaries", `equivalent random for the combined stream: ${error.message}`);
+    throw error;
+  }
   const erLost = er.traffic * erlangBUnchecked(er.servers + n, er.traffic);
   const hayward = erlangBUnchecked(n / peakedness, mean / peakedness);
   if (!(offered > 0)) throw inputError("primaries", "no traffic overflows to the final group");

@@ -90,6 +90,8 @@ export function equivalentRandomUnchecked(mean: number, variance: number): { tra
   const rappTraffic = variance + 3 * z * (z - 1);
   const rappServers = (rappTraffic * (mean + z)) / (mean + z - 1) - mean - 1;
   if (z === 1) return { traffic: mean, servers: 0, rappTraffic, rappServers, iterations: 0 };
+  // Rapp's value is within a few per cent of A*, so this rejects only streams far beyond the bound
+  if (rappTraffic > 1.5 * MAX_EQUIVALENT_TRAFFIC) throw inputError("variance", `the equivalent random traffic (about ${rappTraffic.toPrecision(4)} erlangs by Rapp) would exceed ${MAX_EQUIVALENT_TRAFFIC}`);
   const logZ = Math.log(z);
   // Along the curve A B(N(A), A) = M the overflow peakedness rises from 1 (A = M, N = 0) without bound.
   const mismatch = (logA: number) => {

@@ -202,7 +202,8 @@ export interface SparsePhaseProcess {
 /**
  * Same chain as solveEnvironmentLossChain, solved by Gauss–Seidel sweeps (level by level, phase by
  * phase) for phase spaces too large for dense k×k blocks. Stops when a sweep changes π by at most
- * `tolerance` in L1 and the residual ‖πQ‖₁ / max rate is below 1e-11; returns null if that does
+ * `tolerance` in L1, the arrival-weighted mass of level N changes by at most 1e-12 relative, and
+ * the residual ‖πQ‖₁ / max rate is below 1e-11; returns null if that does
  * not happen within maxSweeps (the caller reports non-convergence; no partial result is used).
  */
 export function gaussSeidelEnvironmentLossChain(
@@ -220,6 +221,8 @@ export function gaussSeidelEnvironmentLossChain(
   const pi = Float64Array.from(initial);
   let maxRate = 0;
   for (let l = 0; l < k; l++) maxRate = Math.max(maxRate, outRate[l] + upRates[l] + n * mu);
+  // the top level carries the blocking, often tiny: its arrival-weighted mass must settle too
+  let previousTop = -1;
   for (let sweep = 1; sweep <= maxSweeps; sweep++) {
     let change = 0;
     for (let j = 0; j <= n; j++) {
@@ -238,7 +241,11 @@ export function gaussSeidelEnvironmentLossChain(
     let total = 0;
     for (let s = 0; s < pi.length; s++) total += pi[s];
     for (let s = 0; s < pi.length; s++) pi[s] /= total;
-    if (change / total <= tolerance) {
+    let top = 0;
+    for (let l = 0; l < k; l++) top += pi[n * k + l] * upRates[l];
+    const topSettled = Math.abs(top - previousTop) <= 1e-12 * top;
+    previousTop = top;
+    if (change / total <= tolerance && topSettled) {
       const residual = environmentResidual(n, process, upRates, mu, pi) / maxRate;
       if (residual <= 1e-11) return { pi, sweeps: sweep, residual };
     }

@@ -3,6 +3,8 @@ import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { log1mexp, logAddExp } from "./numeric";
 
 export const MAX_RENEWAL_SERVERS = 1_000_000;
+/** Beyond this the transform at j μ rounds to 1 and ln(1 - φ) loses all digits. */
+export const MAX_RENEWAL_TRAFFIC = 10_000_000;
 
 const positiveMean = z.number().gt(0).max(1e12);
 
@@ -54,7 +56,7 @@ export const renewalLossInputSchema = z
     interarrival: interarrivalLawSchema,
     meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean of the exponential holding time, default 1"),
   })
-  .describe("GI/M/N/N loss system with renewal arrivals");
+  .describe(`GI/M/N/N loss system with renewal arrivals; offered traffic (mean holding / mean interarrival) at most ${MAX_RENEWAL_TRAFFIC} erlangs`);
 export type RenewalLossInput = z.input<typeof renewalLossInputSchema>;
 
 /** ln φ(s) and ln(1 - φ(s)) of the interarrival Laplace–Stieltjes transform, each without cancellation. */
@@ -63,8 +65,20 @@ interface TransformLogs {
   logs(s: number): { logPhi: number; logOneMinusPhi: number };
 }
 
+export const balancedHyperexponentialInputSchema = z
+  .object({
+    mean: positiveMean.describe("mean of the fitted law"),
+    scv: z.number().min(1).max(1e6).describe("squared coefficient of variation, >= 1"),
+  })
+  .describe("two-branch hyperexponential with balanced means p1 m1 = p2 m2");
+
 /** Balanced-means two-branch hyperexponential fit (Whitt 1982, "Approximating a point process by a renewal process"). */
 export function balancedHyperexponential(mean: number, scv: number): { probabilities: number[]; means: number[] } {
+  parseInput(balancedHyperexponentialInputSchema, { mean, scv });
+  return balancedHyperexponentialUnchecked(mean, scv);
+}
+
+function balancedHyperexponentialUnchecked(mean: number, scv: number): { probabilities: number[]; means: number[] } {
   const p1 = 0.5 * (1 + Math.sqrt((scv - 1) / (scv + 1)));
   const p2 = 1 - p1;
   return { probabilities: [p1, p2], means: [mean / (2 * p1), mean / (2 * p2)] };
@@ -95,7 +109,7 @@ function transformOf(law: InterarrivalLaw): TransformLogs {
     case "deterministic":
       return { mean: law.value, logs: (s) => ({ logPhi: -law.value * s, logOneMinusPhi: log1mexp(-law.value * s) }) };
     case "hyperexponential": {
-      const branches = law.probabilities && law.means ? { probabilities: law.probabilities, means: law.means } : balancedHyperexponential(law.mean!, law.scv!);
+      const branches = law.probabilities && law.means ? { probabilities: law.probabilities, means: law.means } : balancedHyperexponentialUnchecked(law.mean!, law.scv!);
       const mean = branches.probabilities.reduce((s, p, i) => s + p * branches.means[i], 0);
       return {
         mean,
@@ -141,7 +155,9 @@ export function renewalLossSystem(input: RenewalLossInput): RenewalLossResult {
   const transform = transformOf(interarrival);
   const mu = 1 / meanHolding;
   const offeredTraffic = meanHolding / transform.mean;
-  if (!(offeredTraffic > 0) || !Number.isFinite(offeredTraffic)) throw inputError("interarrival", "offered traffic (mean holding / mean interarrival) must be a positive finite number");
+  if (!(offeredTraffic > 0) || !(offeredTraffic <= MAX_RENEWAL_TRAFFIC)) {
+    throw inputError("interarrival", `offered traffic (mean holding / mean interarrival) = ${offeredTraffic} must be in (0, ${MAX_RENEWAL_TRAFFIC}] erlangs`);
+  }
   let callCongestion = 1;
   let timeCongestion = 1;
   if (n > 0) {

@@ -1,6 +1,7 @@
 // Timing figures for lib/teletraffic (median of several repetitions, printed with the result values).
 import {
   batchPoissonLossSystem,
+  engsetIdleRateForOfferedTraffic,
   equivalentRandom,
   erlangB,
   extendedErlangB,
@@ -43,5 +44,7 @@ export async function runTeletrafficBench(): Promise<void> {
   time("GI/M/N/N H2 (scv 9), N = 5 000", () => renewalLossSystem({ servers: 5000, interarrival: { law: "hyperexponential", mean: 1 / 4900, scv: 9 } }), (r) => `call ${r.callCongestion.toPrecision(6)}, time ${r.timeCongestion.toPrecision(6)}`);
   time("batch Poisson m = 3, N = 100 000, all-or-nothing", () => batchPoissonLossSystem({ servers: 100_000, traffic: 99_000, meanBatchSize: 3, admission: "all-or-nothing" }), (r) => `call ${r.callCongestion.toPrecision(6)}, time ${r.timeCongestion.toPrecision(6)}`);
   time("Kaufman–Roberts C = 100 000, 3 classes", () => kaufmanRoberts({ capacity: 100_000, classes: [{ traffic: 50_000, bandwidth: 1 }, { traffic: 4_000, bandwidth: 6 }, { traffic: 500, bandwidth: 30 }] }), (r) => r.classes.map((c) => c.blocking.toPrecision(4)).join(" / "));
+  time("Engset inverse S = 1 000, N = 100, α = 0.09", () => engsetIdleRateForOfferedTraffic({ sources: 1000, servers: 100, offeredPerSource: 0.09 }), (r) => `γ = ${r.idleRate.toPrecision(8)}, ${r.iterations} iterations, call congestion ${r.callCongestion.toPrecision(4)}`);
   time("overflow network 2 primaries (15, 10) onto 20", () => overflowLossSystem({ primaries: [{ traffic: 12, servers: 15 }, { traffic: 8, servers: 10 }], servers: 20 }), (r) => `exact ${r.blocking.toPrecision(6)}, ER ${r.equivalentRandomBlocking.toPrecision(6)}, states ${r.states}`, 3);
+  time("overflow network 2 primaries (20, 20) onto 10 (Gauss–Seidel)", () => overflowLossSystem({ primaries: [{ traffic: 15, servers: 20 }, { traffic: 15, servers: 20 }], servers: 10 }), (r) => `exact ${r.blocking.toPrecision(6)}, ER ${r.equivalentRandomBlocking.toPrecision(6)}, states ${r.states}`, 3);
 }

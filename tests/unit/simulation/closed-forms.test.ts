@@ -2,7 +2,7 @@
 // Every check: see expectAgrees in helpers.ts for the 99.9 % Student-t bound.
 import { describe, expect, it } from "vitest";
 import { erlangB } from "../../../lib/teletraffic";
-import type { ScenarioInput } from "../../../lib/simulation";
+import { parseScenario, ratioInterval, runReplication, type ScenarioInput } from "../../../lib/simulation";
 import { expectAgrees, reference, simulate } from "./helpers";
 
 const run = (seed: number, calls = 50_000, replications = 20) => ({ seed, replications, callsPerReplication: calls, warmupCalls: 2_000 });
@@ -21,12 +21,18 @@ describe("M/M/N/N and M/G/N/N: Erlang B (Erlang 1917; insensitivity: Sevastyanov
     const ref = reference(r, "Erlang B");
     expect(ref.exact).toBe(true);
     expect(ref.callCongestion).toBeCloseTo(B_10_8, 14);
-    // Occupancy: truncated Poisson p_k ∝ A^k / k! (Erlang 1917), state k = 8 carries the most mass.
-    const p8 = r.occupancy[8];
-    let norm = 0;
-    for (let k = 0, term = 1; k <= 10; k++, term *= 8 / k) norm += term;
-    const exactP8 = 8 ** 8 / 40320 / norm;
-    expect(Math.abs(p8 - exactP8) / exactP8, "occupancy p8 vs truncated Poisson (point estimate, 2 % tolerance: ~6 SE at 1M calls, common practice, no source)").toBeLessThan(0.02);
+  });
+
+  it("occupancy distribution: truncated Poisson p_k ∝ A^k / k! (Erlang 1917) at every k", () => {
+    const s = parseScenario({ servers: 10, arrivals: poisson, holding: { law: "exponential", mean: 1 }, run: run(102) });
+    const reps = Array.from({ length: 20 }, (_, i) => runReplication(s, i));
+    const weights: number[] = [];
+    for (let k = 0, term = 1; k <= 10; k++, term *= 8 / k) weights.push(term);
+    const norm = weights.reduce((a, b) => a + b, 0);
+    for (let k = 0; k <= 10; k++) {
+      const ci = ratioInterval(reps.map((r) => r.occupancy[k]), reps.map((r) => r.time), 0.95);
+      expectAgrees(ci, weights[k] / norm, 20, `time fraction with ${k} busy`);
+    }
   });
 
   const laws: Array<[string, ScenarioInput["holding"]]> = [

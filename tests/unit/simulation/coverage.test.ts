@@ -1,4 +1,4 @@
-// Coverage of the nominal 95 % intervals over many independent seeded runs (Law 2015, sec. 9.4:
+// Coverage of the nominal 95 % intervals over many independent seeded runs (Law 2015, ch. 9:
 // the t interval on replication means). M/M/5/5 at 4 erlangs: exact value Erlang B(5, 4).
 import binomialCdf from "@stdlib/stats-base-dists-binomial-cdf";
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { mser5, ratioInterval, Random } from "../../../lib/simulation";
 
-describe("ratio estimator (Cochran 1977, sec. 6.4; Law 2015, sec. 9.5)", () => {
+describe("ratio estimator (Cochran 1977, ch. 6; Law 2015, ch. 9)", () => {
   it("with equal denominators it is the t interval on the per-replication ratios", () => {
     const y = [12, 15, 9, 14, 11, 13];
     const x = [100, 100, 100, 100, 100, 100];

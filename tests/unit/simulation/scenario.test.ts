@@ -81,6 +81,15 @@ describe("scenario validation (zod schema + cross-field rules)", () => {
   }
 });
 
+describe("worked examples", () => {
+  for (const name of ["regional-trunk-overflow.json", "field-crew-radio.json"]) {
+    it(`examples/${name} is a valid scenario`, () => {
+      const text = readFileSync(path.join(__dirname, "../../../lib/simulation/examples", name), "utf8");
+      expect(() => parseScenario(JSON.parse(text))).not.toThrow();
+    });
+  }
+});
+
 describe("JSON Schema of the scenario file", () => {
   const committed = readFileSync(path.join(__dirname, "../../../lib/simulation/scenario.schema.json"), "utf8");
 

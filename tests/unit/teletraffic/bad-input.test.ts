@@ -47,6 +47,8 @@ const cases: Array<[label: string, field: string, run: () => unknown]> = [
   ["renewal, H2 with scv < 1", "interarrival.scv", () => T.renewalLossSystem({ servers: 3, interarrival: { law: "hyperexponential", mean: 1, scv: 0.5 } })],
   ["renewal, H2 probabilities not summing to 1", "interarrival.probabilities", () => T.renewalLossSystem({ servers: 3, interarrival: { law: "hyperexponential", probabilities: [0.5, 0.6], means: [1, 2] } })],
   ["renewal, fractional servers", "servers", () => T.renewalLossSystem({ servers: 2.5, interarrival: { law: "exponential", mean: 1 } })],
+  ["renewal, stream far beyond the traffic bound", "interarrival", () => T.renewalLossSystem({ servers: 3, interarrival: { law: "gamma", mean: 1e-9, cv: 0.5 } })],
+  ["equivalent random, equivalent traffic beyond the bound", "variance", () => T.equivalentRandom({ mean: 1e-3, variance: 1e6 })],
   ["MMPP without phases", "rates", () => T.mmppLossSystem({ servers: 3, rates: [], switching: [] })],
   ["MMPP with 5 phases", "rates", () => T.mmppLossSystem({ servers: 3, rates: [1, 1, 1, 1, 1], switching: [] })],
   ["MMPP with a non-square matrix", "switching", () => T.mmppLossSystem({ servers: 3, rates: [1, 2], switching: [[0, 1, 2], [1, 0, 3]] })],

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
+import { mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import path from "node:path";
 import { analyticCommands } from "../../../lib/cli/analytic-commands";
 import { erlangB, maxTrafficForBlocking } from "../../../lib/teletraffic";
@@ -65,6 +67,13 @@ describe("CLI flag mapping (run() called directly)", () => {
     expect(renewal.json.law).toBe("erlang");
     const h2 = await command("renewal-loss").run(["--servers", "10", "--interarrival.law", "hyperexponential", "--interarrival.probabilities", "0.4,0.6", "--interarrival.means", "0.2,0.075"]);
     expect(h2.json.callCongestion).toBeGreaterThan(0);
+  });
+  it("--input file.json supplies the input object, later flags override it", async () => {
+    const dir = mkdtempSync(path.join(tmpdir(), "spillway-cli-"));
+    const file = path.join(dir, "input.json");
+    writeFileSync(file, JSON.stringify({ servers: 30, traffic: 25 }));
+    const r = await command("erlang-b").run(["--input", file, "--traffic", "20"]);
+    expect(r.json.blocking).toBe(erlangB(30, 20));
   });
   it("invalid values throw input errors from run()", () => {
     expect(() => command("batch-loss").run(["--servers", "10", "--traffic", "5", "--mean-batch-size", "2", "--admission", "most"])).toThrow(/admission/);

@@ -156,6 +156,19 @@ describe("properties (fast-check, fixed seed)", () => {
   });
 });
 
+describe("inverse on real N (continuation)", () => {
+  it("largest A for a fractional group meets the target to 1e-10 and is the largest (property)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 0.3, max: 3000, noNaN: true }), fc.double({ min: 1e-6, max: 0.5, noNaN: true }), (n, target) => {
+        const { traffic } = maxTrafficForBlocking({ servers: n, target });
+        const b = erlangB(n, traffic);
+        return b <= target && relativeError(b, target) < 1e-10 && erlangB(n, traffic * (1 + 1e-9)) > target;
+      }),
+      { seed: 42, numRuns: 150 },
+    );
+  });
+});
+
 describe("state distribution and summary (truncated Poisson, Erlang 1917)", () => {
   it("sums to 1, p_N = B, mean busy = A(1 − B)", () => {
     for (const [n, a] of [[10, 5], [30, 20], [1000, 1200], [5000, 10]]) {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { erlangB, overflowLossSystem } from "../../../lib/teletraffic";
 import { gaussSeidelEnvironmentLossChain, gthStationary, solveEnvironmentLossChain, type SparsePhaseProcess } from "../../../lib/teletraffic/qbd";
-import { denseStationary, relativeError } from "./dense-chain";
+import { denseOverflowNetwork, denseStationary, relativeError } from "./dense-chain";
 
 /** Two independent primaries as the environment of the final group (the overflow network's phase process). */
 function primariesEnvironment(primaries: Array<{ traffic: number; servers: number }>) {
@@ -73,9 +73,10 @@ describe("chain solvers of qbd.ts", () => {
     expect(relativeError(r.overflowOffered, 2 * 15 * erlangB(20, 15))).toBeLessThan(1e-10);
     expect(relativeError(r.perPrimary[0].blocking, r.perPrimary[1].blocking)).toBeLessThan(1e-9);
   });
-  it("a reducible-free but badly skewed chain: equal primaries and a tiny final group still solve directly", () => {
-    const r = overflowLossSystem({ primaries: [{ traffic: 0.5, servers: 3 }, { traffic: 0.5, servers: 3 }], servers: 1 });
+  it("light load with a one-server final group (direct path) matches the dense solve of the whole network", () => {
+    const primaries = [{ traffic: 0.5, servers: 3 }, { traffic: 0.5, servers: 3 }];
+    const r = overflowLossSystem({ primaries, servers: 1 });
     expect(r.method).toMatch(/direct/);
-    expect(r.blocking).toBeGreaterThan(0);
+    expect(relativeError(r.blocking, denseOverflowNetwork(primaries, 1).blocking)).toBeLessThan(1e-10);
   });
 });
