@@ -31,6 +31,9 @@ export function errorResponse(error: unknown): Response {
     const field = typeof domain.field === "string" ? domain.field : "input";
     return jsonError(400, "invalid-input", error.message, { [field]: error.message });
   }
+  if (error instanceof Error && domain.kind === "convergence") {
+    return jsonError(422, "did-not-converge", `The method did not converge for these inputs: ${error.message}`);
+  }
   console.error(error);
   return jsonError(500, "internal", "Something went wrong on the server; the request was not applied.");
 }

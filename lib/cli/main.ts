@@ -44,6 +44,11 @@ async function main(argv: string[]): Promise<number> {
       console.error(`${command.name}: ${describeError(error)}`);
       return 2;
     }
+    if ((error as { kind?: unknown }).kind === "convergence") {
+      // The inputs are valid but outside where the method converges: still the caller's choice to change.
+      console.error(`${command.name}: did not converge: ${describeError(error)}`);
+      return 2;
+    }
     console.error(`${command.name}: internal error: ${describeError(error)}`);
     return 1;
   }

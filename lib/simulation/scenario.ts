@@ -1,5 +1,6 @@
 import { z } from "zod";
 import gammaln from "@stdlib/math-base-special-gammaln";
+import { phasesAreIrreducible } from "../teletraffic/qbd";
 
 /**
  * The scenario file shared by UI, API, CLI and worker. Rates and means are in one time
@@ -180,26 +181,7 @@ export const arrivalsSchema = z.discriminatedUnion("process", [
 ]);
 export type Arrivals = z.infer<typeof arrivalsSchema>;
 
-function phasesCommunicate(switching: number[][]): boolean {
-  const k = switching.length;
-  const reach = (forward: boolean) => {
-    const seen = new Array<boolean>(k).fill(false);
-    const stack = [0];
-    seen[0] = true;
-    while (stack.length) {
-      const i = stack.pop()!;
-      for (let j = 0; j < k; j++) {
-        const rate = forward ? switching[i][j] : switching[j][i];
-        if (j !== i && rate > 0 && !seen[j]) {
-          seen[j] = true;
-          stack.push(j);
-        }
-      }
-    }
-    return seen.every(Boolean);
-  };
-  return reach(true) && reach(false);
-}
+const phasesCommunicate = (switching: number[][]) => phasesAreIrreducible(switching.length, (i, j) => switching[i][j]);
 
 export const retrialsSchema = z.strictObject({
   persistence: probability(),

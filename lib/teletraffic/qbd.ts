@@ -167,9 +167,8 @@ export function gthStationary(rates: Float64Array, k: number): Float64Array | nu
   return pi;
 }
 
-/** Stationary distribution θ of a small irreducible generator, or null if it is reducible. */
-export function phaseStationary(phaseRates: Float64Array, k: number): Float64Array | null {
-  // Irreducible iff every phase reaches and is reached from phase 0.
+/** Irreducible iff every phase reaches and is reached from phase 0 along positive off-diagonal rates. */
+export function phasesAreIrreducible(k: number, rate: (from: number, to: number) => number): boolean {
   const reach = (forward: boolean) => {
     const seen = new Array<boolean>(k).fill(false);
     const stack = [0];
@@ -177,8 +176,7 @@ export function phaseStationary(phaseRates: Float64Array, k: number): Float64Arr
     while (stack.length) {
       const i = stack.pop()!;
       for (let l = 0; l < k; l++) {
-        const rate = forward ? phaseRates[i * k + l] : phaseRates[l * k + i];
-        if (l !== i && rate > 0 && !seen[l]) {
+        if (l !== i && (forward ? rate(i, l) : rate(l, i)) > 0 && !seen[l]) {
           seen[l] = true;
           stack.push(l);
         }
@@ -186,7 +184,12 @@ export function phaseStationary(phaseRates: Float64Array, k: number): Float64Arr
     }
     return seen.every(Boolean);
   };
-  if (!reach(true) || !reach(false)) return null;
+  return reach(true) && reach(false);
+}
+
+/** Stationary distribution θ of a small irreducible generator, or null if it is reducible. */
+export function phaseStationary(phaseRates: Float64Array, k: number): Float64Array | null {
+  if (!phasesAreIrreducible(k, (i, l) => phaseRates[i * k + l])) return null;
   return gthStationary(phaseRates, k);
 }
 
