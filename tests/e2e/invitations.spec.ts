@@ -43,7 +43,7 @@ test("an admin invites someone, who sets a password through the link and joins w
   await page.goto("/w/kestrel-fen/members");
   await page.getByLabel(`Role of ${email}`).selectOption("viewer");
   await expect(page.getByText("Role changed to viewer.")).toBeVisible();
-  await invitee.reload();
+  await invitee.goto("/w/kestrel-fen");
   await expect(invitee.getByRole("list", { name: "What your role allows" }).getByText("Queue simulation runs (not allowed)")).toBeAttached();
 
   // Admins read the captured mail in the development mailbox.
