@@ -119,7 +119,7 @@ export interface EngsetIdleRateResult extends EngsetResult {
 }
 
 /**
- * Fixed point β = α / (1 - α (1 - C)) (Iversen, "Teletraffic Engineering and Network Planning",
+ * Fixed point β = α / (1 - α (1 - C)) (Iversen, "Teletraffic Engineering Handbook (ITU-D, 2005)",
  * ITU-D handbook, Engset chapter), i.e. β = α / (1 - y(β)) with y the carried traffic per source.
  * From β₀ = α/(1-α) the iterates decrease monotonically towards the root (y is increasing in β),
  * so every α in (0, 1) is feasible; the iteration cap only guards against very slow convergence.

@@ -4,7 +4,7 @@ import { defineConfig } from "@playwright/test";
 export default defineConfig({
   testDir: ".",
   testMatch: "**/*.spec.ts",
-  outputDir: "../../test-results",
+  outputDir: "../.output/test-results",
   fullyParallel: false,
   workers: 1,
   retries: 0,

@@ -16,7 +16,7 @@ function denseEngset(sources: number, servers: number, gamma: number, h: number)
   };
 }
 
-describe("Engset (Engset 1918; Iversen, Teletraffic Engineering and Network Planning, Engset chapter)", () => {
+describe("Engset (Engset 1918; Iversen, Teletraffic Engineering Handbook (ITU-D, 2005), Engset chapter)", () => {
   it.each([
     [10, 4, 0.3, 1],
     [20, 5, 0.2, 1],

@@ -31,7 +31,7 @@ describe("Erlang B against exact rational arithmetic (exact method: BigInt Σ A^
   });
 });
 
-describe("Erlang B table values (Erlang B tables as printed in textbooks, e.g. Iversen, Teletraffic Engineering and Network Planning, table of A for given N and E; from memory, 2 decimals)", () => {
+describe("Erlang B table values (Erlang B tables as printed in textbooks, e.g. Iversen, Teletraffic Engineering Handbook (ITU-D, 2005), table of A for given N and E; from memory, 2 decimals)", () => {
   const table: Array<[servers: number, grade: number, traffic: number]> = [
     [5, 0.01, 1.36],
     [10, 0.01, 4.46],
