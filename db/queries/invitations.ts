@@ -3,19 +3,16 @@ import { and, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import type { Database } from "../client";
 import { invitations, memberships, users, workspaces } from "../schema";
 import { recordAudit } from "./audit";
+import { RecordInputError } from "./errors";
 import type { WorkspaceRole } from "@/lib/auth/roles";
 import { invitationValidityDays } from "@/lib/schemas/invitation";
 import { hashPassword } from "@/lib/auth/password";
 
 export const hashInvitationToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
-export class InvitationError extends Error {
-  readonly kind = "input" as const;
-  constructor(
-    message: string,
-    readonly field = "token",
-  ) {
-    super(message);
+export class InvitationError extends RecordInputError {
+  constructor(message: string, field = "token") {
+    super(message, field);
   }
 }
 

@@ -2,6 +2,7 @@ import { and, asc, eq } from "drizzle-orm";
 import type { Database } from "../client";
 import { memberships, users } from "../schema";
 import { recordAudit } from "./audit";
+import { RecordInputError } from "./errors";
 import type { WorkspaceRole } from "@/lib/auth/roles";
 
 export async function listMembers(db: Database, workspaceId: string) {
@@ -13,13 +14,9 @@ export async function listMembers(db: Database, workspaceId: string) {
     .orderBy(asc(users.email));
 }
 
-export class MembershipError extends Error {
-  readonly kind = "input" as const;
-  constructor(
-    message: string,
-    readonly field = "role",
-  ) {
-    super(message);
+export class MembershipError extends RecordInputError {
+  constructor(message: string, field = "role") {
+    super(message, field);
   }
 }
 
