@@ -16,6 +16,8 @@ export function SignInForms({ returnTo }: { returnTo?: string }) {
             key={m}
             role="tab"
             type="button"
+            id={`sign-in-tab-${m}`}
+            aria-controls="sign-in-panel"
             aria-selected={mode === m}
             onClick={() => setMode(m)}
             className={`rounded-md px-3 py-1.5 font-medium ${mode === m ? "bg-white text-basin-900 shadow-xs" : "text-basin-700 hover:text-basin-900"}`}
@@ -24,7 +26,9 @@ export function SignInForms({ returnTo }: { returnTo?: string }) {
           </button>
         ))}
       </div>
-      {mode === "password" ? <PasswordForm returnTo={returnTo} /> : <LinkForm returnTo={returnTo} />}
+      <div role="tabpanel" id="sign-in-panel" aria-labelledby={`sign-in-tab-${mode}`}>
+        {mode === "password" ? <PasswordForm returnTo={returnTo} /> : <LinkForm returnTo={returnTo} />}
+      </div>
     </div>
   );
 }

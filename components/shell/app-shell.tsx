@@ -29,7 +29,6 @@ export function AppShell({ workspace, role, user, workspaces, mailboxEnabled, ch
       <header className="bg-basin-950 text-white">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-4 px-4 py-3">
           <Link href={base} className="flex items-center gap-2 text-lg font-semibold tracking-tight">
-            {/* eslint-disable-next-line @next/next/no-img-element -- a tiny static SVG needs no optimisation */}
             <img src="/spillway-mark.svg" alt="" width={24} height={24} />
             <span>
               Spill<span className="text-spill-400">way</span>
