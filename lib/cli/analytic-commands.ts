@@ -79,13 +79,29 @@ export function parseOperationFlags(name: AnalyticOperationName, argv: string[])
     flags.push([flag, value]);
   }
   const nest = nestedFlags[name];
+  const known = inputKeys(name);
   for (const [flag, value] of flags) {
     let path = flag.split(".").map(camelCase);
     if (nest && path.length === 1 && nest.keys.includes(path[0])) path = [nest.into, path[0]];
+    // Why: the operation schemas strip unknown keys, so a misspelt optional flag (--mean-holdng 2)
+    // was dropped silently and the default used, giving a wrong number with exit 0
+    if (known && !known.has(path[0])) {
+      throw new CliUsageError(`unknown flag --${flag} for ${name} (known: ${[...known].map((k) => `--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`).join(", ")})`);
+    }
     const asList = (listFlags[name] ?? []).includes(path.join("."));
     setPath(input, path, coerce(value, flag, asList));
   }
   return input;
+}
+
+/** Top-level input keys of an operation, from its JSON schema; undefined if they cannot be listed. */
+function inputKeys(name: AnalyticOperationName): Set<string> | undefined {
+  try {
+    const json = z.toJSONSchema(analyticOperations[name].input, { io: "input", unrepresentable: "any" }) as { properties?: Record<string, unknown> };
+    return json.properties ? new Set(Object.keys(json.properties)) : undefined;
+  } catch {
+    return undefined;
+  }
 }
 
 function flatten(value: unknown, prefix: string, rows: Array<[string, string | number]>): void {

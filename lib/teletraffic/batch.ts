@@ -59,11 +59,13 @@ export function batchPoissonLossSystem(input: BatchLossInput): BatchLossResult {
   let total = 0;
   for (let j = 0; j <= n; j++) total += p[j];
   let batchCongestion = 0;
+  let meanBusy = 0;
   let lostCalls = 0; // per batch, in calls
   for (let j = 0; j <= n; j++) {
     const pj = p[j] / total;
     const exceed = qPow(n - j); // P(X > N - j)
     batchCongestion += pj * exceed;
+    meanBusy += j * pj;
     // partial: E[(X - (N-j))+] = q^{N-j} m (memoryless); all-or-nothing: E[X; X > N-j] = q^{N-j} (N - j + m)
     lostCalls += pj * exceed * (admission === "partial" ? m : n - j + m);
   }
@@ -78,7 +80,8 @@ export function batchPoissonLossSystem(input: BatchLossInput): BatchLossResult {
       timeCongestion: p[n] / total,
       callCongestion,
       batchCongestion,
-      carriedTraffic: traffic * (1 - callCongestion),
+      // carried = mean number busy (Little, holding time as unit): traffic (1 − call congestion) cancels near 1
+      carriedTraffic: meanBusy,
       lostTraffic: traffic * callCongestion,
     },
     "batchPoissonLossSystem",

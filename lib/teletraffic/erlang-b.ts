@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { assertFiniteResult, inputError, parseInput } from "./errors";
+import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { lnGamma } from "./numeric";
 import { solveBracketed } from "./solve";
 
@@ -112,6 +112,12 @@ function logInverseFractionalStart(f: number, traffic: number): number {
     const logHead = traffic - f * Math.log(traffic) + lnGamma(a);
     return logHead + Math.log1p(-traffic * sum * Math.exp(-logHead));
   }
+  // Γ(a,A) = e^-A A^a h, so 1/B = A^-f e^A Γ(a,A) = A h
+  return Math.log(traffic * upperGammaContinuedFraction(a, traffic));
+}
+
+/** h with Γ(a, x) = e^-x x^a h: Lentz's continued fraction (Numerical Recipes), for x > 0, fast when x > a + 1. */
+function upperGammaContinuedFraction(a: number, traffic: number): number {
   const fpmin = 1e-300;
   let b = traffic + 1 - a;
   let c = 1 / fpmin;
@@ -129,8 +135,22 @@ function logInverseFractionalStart(f: number, traffic: number): number {
     h *= del;
     if (Math.abs(del - 1) < 1e-16) break;
   }
-  // Γ(a,A) = e^-A A^a h, so 1/B = A^-f e^A Γ(a,A) = A h
-  return Math.log(traffic * h);
+  return h;
+}
+
+/**
+ * 1 − B(N, A) without the cancellation of 1 − B when B is near 1 (A ≫ N). For N >= 1 the recursion
+ * gives 1 − B(N) = N / (N + A B(N−1)); for 0 < N < 1, Γ(N+1, A) = N Γ(N, A) + A^N e^-A gives
+ * 1 − B(N) = N Γ(N, A) / Γ(N+1, A) = N h_N B(N) with Γ(a, A) = e^-A A^a h_a (continued fraction;
+ * below A = N + 2 the blocking is at most about 0.8 and 1 − B is used as is).
+ */
+export function erlangBComplementUnchecked(servers: number, traffic: number): number {
+  if (servers === 0) return 0;
+  if (traffic === 0) return 1;
+  if (servers >= 1) return servers / (servers + traffic * erlangBUnchecked(servers - 1, traffic));
+  const blocking = erlangBUnchecked(servers, traffic);
+  if (traffic < servers + 2) return 1 - blocking;
+  return servers * upperGammaContinuedFraction(servers, traffic) * blocking;
 }
 
 function erlangBBoth(servers: number, traffic: number): { blocking: number; logBlocking: number } {
@@ -196,7 +216,8 @@ export interface ErlangBSummary {
 export function erlangBSummary(input: ErlangBInput): ErlangBSummary {
   const { servers, traffic } = parseInput(erlangBInputSchema, input);
   const blocking = erlangBUnchecked(servers, traffic);
-  const carriedTraffic = traffic * (1 - blocking);
+  // Why the complement: A (1 − B) cancelled for B near 1; N = 0.001, A = 1e7 carried 0.00100000008 > N
+  const carriedTraffic = traffic * erlangBComplementUnchecked(servers, traffic);
   return assertFiniteResult(
     {
       method: Number.isInteger(servers)
@@ -231,7 +252,7 @@ export function maxTrafficForBlocking(input: MaxTrafficInput): MaxTrafficResult 
   const blocking = erlangBUnchecked(servers, traffic.root);
   return assertFiniteResult(
     {
-      method: "Erlang B inverse in A (safeguarded Newton on ln B, dB/dA = B (N/A - 1 + B))",
+      method: "Erlang B inverse in A (safeguarded Newton on ln B in ln A, d ln B / d ln A = N - A (1 - B))",
       servers,
       target,
       traffic: traffic.root,
@@ -246,38 +267,73 @@ export function maxTrafficForBlocking(input: MaxTrafficInput): MaxTrafficResult 
 
 export function maxTrafficUnchecked(servers: number, target: number): { root: number; iterations: number } {
   const logTarget = Math.log(target);
+  // Why ln A: with Newton in A and halving of [0, hi] as the fallback, a root far below the start
+  // (N = 3, target 1e-300: A ≈ 1.8e-100; N = 1, target 1e-100) was reached only by halving and the
+  // 200 steps ran out (a plain Error). In u = ln A, ln B ≈ N u − ln Γ(N+1) is nearly linear for small
+  // A, and the bracket [ln 5e-324, ln(N/(1−t))] halves to 1e-15 in about 60 steps.
+  const floor = Number.MIN_VALUE;
+  const logBAtFloor = logErlangBUnchecked(servers, floor);
+  if (logBAtFloor > logTarget) {
+    // tiny real N: 1/B(x, A) ≈ 1 + x ln(1/A), so B falls below the target only at an A that underflows
+    throw inputError("target", `${target} is below B(N, A) = ${Math.exp(logBAtFloor)} even at the smallest positive traffic ${floor}; the largest traffic meeting it underflows to 0`);
+  }
+  if (logErlangBUnchecked(servers, MAX_TRAFFIC) <= logTarget) {
+    // Why: beyond the traffic domain the root is ill-conditioned (relative error about 1e-16 / (1 − target)
+    // in A): N = 5, target 1 − 1e-15 gave A = 1.8e15 where the root is 5.0e15 (60 % off).
+    throw inputError("target", `${target}: the largest traffic meeting it is above ${MAX_TRAFFIC} erlangs, outside the traffic domain`);
+  }
+  let lo = Math.log(floor); // ln B(lo) - ln t <= 0
   // A (1 - B) <= N, so at A = N / (1 - target) the blocking is already >= target.
-  let lo = 0;
-  let hi = servers / (1 - target);
-  let x = Math.min(servers, hi * 0.5);
-  if (servers > 10) x = Math.min(hi * 0.999, Math.max(1e-3, servers - Math.sqrt(servers) * Math.sqrt(Math.max(0, -2 * Math.log(target * Math.sqrt(servers))))));
+  let hi = Math.min(Math.log(servers / (1 - target)), Math.log(MAX_TRAFFIC));
+  let x = Math.min(servers, Math.exp(hi) * 0.5);
+  if (servers > 10) x = Math.min(Math.exp(hi) * 0.999, Math.max(1e-3, servers - Math.sqrt(servers) * Math.sqrt(Math.max(0, -2 * Math.log(target * Math.sqrt(servers))))));
+  let u = Math.min(hi, Math.max(lo, Math.log(x)));
   for (let i = 1; i <= 200; i++) {
+    x = Math.exp(u);
     const logB = logErlangBUnchecked(servers, x);
     const g = logB - logTarget;
     if (g === 0) return { root: stepDownToTarget(servers, x, target), iterations: i };
-    if (g < 0) lo = x;
-    else hi = x;
-    const slope = servers / x - 1 + Math.exp(logB); // d ln B / dA
-    let next = x - g / slope;
-    // a Newton step below rounding of x means x is the root (checked before the bracket test,
-    // since such a step lands on x itself, i.e. on the bracket end)
-    if (Math.abs(next - x) <= 1e-14 * x) return { root: stepDownToTarget(servers, next, target), iterations: i };
-    if (!(next > lo && next < hi) || !Number.isFinite(next)) next = 0.5 * (lo + hi);
-    if (hi - lo <= 1e-15 * hi) return { root: stepDownToTarget(servers, next, target), iterations: i };
+    if (g < 0) lo = u;
+    else hi = u;
+    // d ln B / d ln A = A (N/A − 1 + B) = N − A (1 − B) > 0 (carried traffic is below N)
+    const slope = servers + x * Math.expm1(logB);
+    let next = u - g / slope;
+    const tol = 1e-15 * Math.max(1, Math.abs(u));
+    if (Math.abs(next - u) <= tol || hi - lo <= tol) return { root: polishTraffic(servers, Math.exp(next > lo && next < hi ? next : u), logTarget, lo, hi, target), iterations: i };
+    // after 100 steps (Newton wandering on rounding noise of ln B near 1) only bisect: the bracket,
+    // at most 760 wide in ln A, is then below 1e-15 long before step 200
+    if (!(next > lo && next < hi) || i > 100) next = 0.5 * (lo + hi);
+    u = next;
+  }
+  throw new TeletrafficConvergenceError("maxTrafficForBlocking: safeguarded Newton in ln A did not settle within 200 steps", 200);
+}
+
+/** ln A carries only about |ln A| ulps of A: two Newton steps in A itself restore full relative accuracy. */
+function polishTraffic(servers: number, traffic: number, logTarget: number, lo: number, hi: number, target: number): number {
+  let x = traffic;
+  const xLo = Math.exp(lo);
+  const xHi = Math.exp(hi);
+  for (let k = 0; k < 2; k++) {
+    const logB = logErlangBUnchecked(servers, x);
+    const next = x - (logB - logTarget) / (servers / x - 1 + Math.exp(logB));
+    if (!(next >= xLo && next <= xHi)) break;
     x = next;
   }
-  throw new Error("maxTrafficForBlocking: Newton iteration did not settle");
+  return stepDownToTarget(servers, x, target);
 }
 
 /** Steps down by a few ulps until the blocking, as the caller will recompute it, meets the target. */
 function stepDownToTarget(servers: number, traffic: number, target: number): number {
   let x = traffic;
-  for (let k = 0; k < 60 && !meetsTarget(servers, x, target); k++) x *= 1 - 2 ** (k - 52);
+  // k stops at 51 (factor 1/2): from k = 52 on the factor would be <= 0
+  for (let k = 0; k < 52 && !meetsTarget(servers, x, target); k++) x *= 1 - 2 ** (k - 52);
   return x;
 }
 
+// Why the reported quantity: comparing ln B below 1e-280 let exp(ln B) round above the target
+// (N = 3, target 1e-300 reported blocking 1.0000000000000237e-300).
 function meetsTarget(servers: number, traffic: number, target: number): boolean {
-  return target >= TINY ? erlangBUnchecked(servers, traffic) <= target : logErlangBUnchecked(servers, traffic) <= Math.log(target);
+  return erlangBUnchecked(servers, traffic) <= target;
 }
 
 export interface MinServersResult {

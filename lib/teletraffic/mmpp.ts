@@ -51,17 +51,22 @@ export function mmppLossSystem(input: MmppLossInput): MmppLossResult {
   const up = Float64Array.from(rates);
   const meanArrivalRate = rates.reduce((s, rate, i) => s + rate * theta[i], 0);
   const offeredTraffic = meanArrivalRate * meanHolding;
-  let timeCongestion = 0;
-  let callCongestion = 0;
+  // no arrivals: the chain stays at level 0, which is the full level when N = 0 (as B(0, 0) = 1)
+  let timeCongestion = n === 0 ? 1 : 0;
+  let callCongestion = n === 0 ? 1 : 0;
   let meanBusy = 0;
+  let admittedRate = 0;
   if (meanArrivalRate > 0) {
     const pi = solveEnvironmentLossChain(n, k, phaseRates, up, 1 / meanHolding);
+    timeCongestion = 0;
+    callCongestion = 0;
     let blockedArrivals = 0;
     for (let i = 0; i < k; i++) {
       timeCongestion += pi[n * k + i];
       blockedArrivals += rates[i] * pi[n * k + i];
     }
     for (let j = 0; j <= n; j++) for (let i = 0; i < k; i++) meanBusy += j * pi[j * k + i];
+    for (let j = 0; j < n; j++) for (let i = 0; i < k; i++) admittedRate += rates[i] * pi[j * k + i];
     callCongestion = blockedArrivals / meanArrivalRate;
   }
   return assertFiniteResult(
@@ -73,7 +78,9 @@ export function mmppLossSystem(input: MmppLossInput): MmppLossResult {
       offeredTraffic,
       timeCongestion,
       callCongestion,
-      carriedTraffic: offeredTraffic * (1 - callCongestion),
+      // Why the sum of admitted arrivals, not offered (1 − call congestion): with the call congestion
+      // near 1 that difference cancelled (N = 49 999, h = 1e12 gave carried 50 144 > N servers)
+      carriedTraffic: admittedRate * meanHolding,
       lostTraffic: offeredTraffic * callCongestion,
       phaseProbabilities: Array.from(theta),
       meanBusy,

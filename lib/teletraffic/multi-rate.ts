@@ -69,7 +69,10 @@ export function kaufmanRoberts(input: KaufmanRobertsInput): KaufmanRobertsResult
     let tail = 0;
     for (let x = c; x > c - cls.bandwidth; x--) tail += q[x];
     const blocking = tail / total;
-    return { traffic: cls.traffic, bandwidth: cls.bandwidth, blocking, carriedTraffic: cls.traffic * (1 - blocking) };
+    // carried from the admitting states, not A (1 − blocking), which cancels when blocking is near 1
+    let head = 0;
+    for (let x = 0; x <= c - cls.bandwidth; x++) head += q[x];
+    return { traffic: cls.traffic, bandwidth: cls.bandwidth, blocking, carriedTraffic: (cls.traffic * head) / total };
   });
   for (const r of results) assertFiniteResult(r, "kaufmanRoberts");
   return assertFiniteResult(

@@ -15,3 +15,18 @@ export function logAddExp(a: number, b: number): number {
   const m = Math.max(a, b);
   return m + Math.log1p(Math.exp(-Math.abs(a - b)));
 }
+
+/** Compensated summation (Neumaier 1974): error about one rounding, independent of the number of terms. */
+export class NeumaierSum {
+  private sum = 0;
+  private compensation = 0;
+  add(x: number): void {
+    const t = this.sum + x;
+    if (Math.abs(this.sum) >= Math.abs(x)) this.compensation += this.sum - t + x;
+    else this.compensation += x - t + this.sum;
+    this.sum = t;
+  }
+  value(): number {
+    return this.sum + this.compensation;
+  }
+}

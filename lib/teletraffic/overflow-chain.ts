@@ -153,6 +153,9 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
     mean += m.mean;
     variance += m.variance;
   }
+  // Why here: a primary with far more servers than traffic (0.001 E on 1000 servers) has an overflow
+  // mean that underflows to 0, and V/M was NaN, a plain internal failure, before the check below ran
+  if (!(offered > 0) || !(mean > 1e-280)) throw inputError("primaries", `no traffic overflows to the final group (overflow mean ${mean} erlangs is below the float range)`);
   const peakedness = variance / mean;
   if (peakedness < 1 - 1e-9) throw new Error("overflowLossSystem: summed overflow peakedness below 1");
   let er: ReturnType<typeof equivalentRandomUnchecked>;

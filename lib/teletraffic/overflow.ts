@@ -4,6 +4,7 @@ import {
   erlangBUnchecked,
   logErlangBUnchecked,
   MAX_SERVERS,
+  MAX_TRAFFIC,
   minServersUnchecked,
   serversField,
   trafficField,
@@ -180,6 +181,9 @@ export function haywardBlocking(input: HaywardInput): HaywardResult {
   const { mean, variance, servers } = parseInput(haywardInputSchema, input);
   const z = variance / mean;
   if (servers / z > MAX_SERVERS) throw inputError("servers", `N/Z exceeds ${MAX_SERVERS}`);
+  // Why: with N = 0 the N/Z check passes for any Z, and a very smooth stream (V = 1e-300) gave
+  // M/Z = Infinity and a plain internal failure instead of an input error
+  if (!(mean / z <= MAX_TRAFFIC)) throw inputError("variance", `M/Z = M²/V exceeds ${MAX_TRAFFIC} erlangs (peakedness ${z} too small)`);
   const blocking = erlangBUnchecked(servers / z, mean / z);
   return assertFiniteResult(
     {

@@ -85,11 +85,14 @@ function balancedHyperexponentialUnchecked(mean: number, scv: number): { probabi
 }
 
 function gammaLogs(shape: number, mean: number): TransformLogs {
-  const scale = mean / shape;
   return {
     mean,
     logs(s) {
-      const logPhi = -shape * Math.log1p(scale * s);
+      // ln φ = −shape ln(1 + x), x = mean s / shape, written as −mean s · ln(1 + x)/x. Why: for
+      // cv below about 1e-154, shape = 1/cv² is Infinity and −Infinity · ln1p(0) was NaN; the
+      // rewritten form tends to the deterministic −mean s.
+      const x = (mean / shape) * s;
+      const logPhi = -mean * s * (x === 0 ? 1 : Math.log1p(x) / x);
       return { logPhi, logOneMinusPhi: log1mexp(logPhi) };
     },
   };
@@ -160,11 +163,13 @@ export function renewalLossSystem(input: RenewalLossInput): RenewalLossResult {
   }
   let callCongestion = 1;
   let timeCongestion = 1;
+  let admittedFraction = 0;
   if (n > 0) {
     // term_j = ln binom(N, j) - ln C_j, built incrementally
     let logBinom = 0;
     let logC = 0;
     let logSum = 0; // j = 0 term is 1
+    let logRest = -Infinity; // Σ_{j>=1}: 1 − B = rest / sum without cancellation
     let last = { logPhi: 0, logOneMinusPhi: 0 };
     for (let j = 1; j <= n; j++) {
       last = transform.logs(j * mu);
@@ -172,8 +177,10 @@ export function renewalLossSystem(input: RenewalLossInput): RenewalLossResult {
       logBinom += Math.log((n - j + 1) / j);
       logC += last.logPhi - last.logOneMinusPhi;
       logSum = logAddExp(logSum, logBinom - logC);
+      logRest = logAddExp(logRest, logBinom - logC);
     }
     callCongestion = Math.exp(-logSum);
+    admittedFraction = Math.exp(logRest - logSum);
     timeCongestion = Math.exp(Math.log(offeredTraffic / n) - logSum + last.logOneMinusPhi - last.logPhi);
   }
   return assertFiniteResult(
@@ -186,7 +193,7 @@ export function renewalLossSystem(input: RenewalLossInput): RenewalLossResult {
       offeredTraffic,
       callCongestion,
       timeCongestion,
-      carriedTraffic: offeredTraffic * (1 - callCongestion),
+      carriedTraffic: offeredTraffic * admittedFraction,
     },
     "renewalLossSystem",
   );

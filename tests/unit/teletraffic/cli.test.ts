@@ -45,6 +45,15 @@ describe("CLI (spawned: tsx lib/cli/main.ts)", () => {
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(/servers/);
   });
+  it("a misspelt optional flag exits 2 instead of being dropped for the default (--mean-holdng)", () => {
+    const r = cli("engset", "--sources", "10", "--servers", "3", "--idle-rate", "0.1", "--mean-holdng", "3", "--json");
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe("");
+    expect(r.stderr).toMatch(/--mean-holdng/);
+    // the nested renewal-loss shortcuts (--law, --k, --mean) are still accepted
+    const ok = cli("renewal-loss", "--servers", "3", "--law", "erlang", "--k", "2", "--mean", "0.5", "--json");
+    expect(ok.status).toBe(0);
+  });
   it("a flag without a value exits 2", () => {
     const r = cli("mmpp-loss", "--servers");
     expect(r.status).toBe(2);
