@@ -37,6 +37,15 @@ export interface ReplicationStats {
   warmupTime: number;
 }
 
+/**
+ * Relative tolerance under which a heap event and a fresh arrival are one instant. Why: event
+ * times are sums rounded at each step, so with deterministic laws a departure due exactly when
+ * an arrival comes (interarrival 0.1, holding 0.3: 0.1 + 0.1 + 0.1 != 0 + 0.3 in binary) landed
+ * an ulp or two after it, and D/D/3 with 3 E reported 16 % blocking instead of 0. A few ulps of
+ * accumulated rounding are covered; continuous laws almost never come this close.
+ */
+const TIE = 16 * Number.EPSILON;
+
 const K_DEPARTURE = 0;
 const K_PRIMARY_DEPARTURE = 1;
 const K_RETRY = 2;
@@ -177,6 +186,9 @@ export class Replication {
   private readonly fastPath: boolean;
   readonly traceTime: number[] = [];
   readonly traceBusy: number[] = [];
+  /** Fresh calls seen before each trace point (the warm-up that cutting there discards). */
+  readonly traceCalls: number[] = [];
+  private nextTrace = 0;
 
   // statistics
   private calls = 0;
@@ -504,9 +516,15 @@ export class Replication {
     }
     if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) this.startMeasuring();
     if (this.measuring && this.calls >= this.callsTarget) return false;
-    if (this.traceEvery > 0 && this.callsSeen % this.traceEvery === 0) {
+    // Why: `callsSeen % traceEvery === 0` skipped trace points whenever a batch jumped over a
+    // multiple, so batch pilots had unequal, sparse groups and run.ts mapped the MSER cut to
+    // d * traceEvery calls instead of the calls actually seen at trace point d. Now a point is
+    // taken at the first arrival at or past each multiple, and its call count is recorded.
+    if (this.traceEvery > 0 && this.callsSeen >= this.nextTrace) {
       this.traceTime.push(this.t);
       this.traceBusy.push(this.busyIntegral);
+      this.traceCalls.push(this.callsSeen);
+      while (this.nextTrace <= this.callsSeen) this.nextTrace += this.traceEvery;
     }
     if (this.process === P_BATCH) {
       const size = this.batchSize!.sample(this.arrivalRng);
@@ -569,8 +587,12 @@ export class Replication {
         source = 1;
       }
       if (this.nextArrival < next) {
-        next = this.nextArrival;
-        source = 2;
+        // A heap event a few ulps after the arrival is the same instant (see TIE): heap first.
+        if (source === 0 && this.heapSize > 0 && next - this.nextArrival <= TIE * next) next = this.nextArrival;
+        else {
+          next = this.nextArrival;
+          source = 2;
+        }
       }
       if (this.control <= next) {
         this.integrate(this.control, occupancy);
@@ -652,8 +674,9 @@ export class Replication {
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
-      const departureFirst = n > 0 && ht[0] <= nextArrival;
-      const next = departureFirst ? ht[0] : nextArrival;
+      // Same tie rule as the general loop (TIE), so both consume the same draws.
+      const departureFirst = n > 0 && (ht[0] <= nextArrival || ht[0] - nextArrival <= TIE * ht[0]);
+      const next = departureFirst ? Math.min(ht[0], nextArrival) : nextArrival;
       if (this.control <= next) {
         // only a horizon or a warm-up time ends here: leave it to the general bookkeeping
         const dt = this.control - t;

@@ -5,7 +5,7 @@ import { Worker } from "node:worker_threads";
 import { Replication, type ReplicationStats } from "./engine";
 import { mser5, ratioInterval } from "./estimators";
 import { buildResult, type SimulationResult } from "./result";
-import { LIMITS, type Scenario, lawMean } from "./scenario";
+import { LIMITS, type Scenario, batchMean, lawMean } from "./scenario";
 
 /** Events per slice between progress reports and cancellation checks (~10-30 ms of work). */
 export const SLICE_EVENTS = 1 << 18;
@@ -29,7 +29,7 @@ function approximateCallRate(scenario: Scenario): number {
     case "poisson":
       return a.rate;
     case "batch":
-      return a.rate * 2;
+      return a.rate * batchMean(a.batchSize);
     case "mmpp":
       return Math.max(...a.rates);
     case "on-off":
@@ -77,7 +77,8 @@ export class ReplicationJob {
     }
     const discard = mser5(observations);
     this.pilot = false;
-    this.current = new Replication(this.scenario, this.index, { warmupCalls: discard * this.traceEvery });
+    // Cutting after `discard` observations starts measuring at trace point `discard`.
+    this.current = new Replication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 });
     return false;
   }
 
@@ -181,10 +182,14 @@ export async function runScenario(scenario: Scenario, options: RunOptions = {}):
       let calls = results.reduce((s, r) => s + r.calls, 0);
       const wave = Math.max(1, threads);
       let met = relativeHalfWidth(results, run.confidence) <= precision.relativeHalfWidth;
-      while (!met && results.length < LIMITS.replications) {
-        const perReplication = calls / results.length;
-        const affordable = Math.floor((precision.maxCalls - calls) / Math.max(1, perReplication));
-        const count = Math.min(wave, affordable, LIMITS.replications - results.length);
+      // Why: the budget rule used to be evaluated once per wave, so with calls varying per
+      // replication (horizon runs) two threads could run a replication that one thread's rule
+      // refused, breaking the bit-identical guarantee and overshooting maxCalls. It is now
+      // evaluated before each replication in index order; a wave only runs ahead speculatively.
+      const affordable = () => Math.floor((precision.maxCalls - calls) / Math.max(1, calls / results.length));
+      let stop = false;
+      while (!met && !stop && results.length < LIMITS.replications) {
+        const count = Math.min(wave, affordable(), LIMITS.replications - results.length);
         if (count <= 0) break;
         const start = results.length;
         planned = start + count;
@@ -193,6 +198,10 @@ export async function runScenario(scenario: Scenario, options: RunOptions = {}):
           report,
         );
         for (const r of extra) {
+          if (affordable() < 1) {
+            stop = true;
+            break;
+          }
           results.push(r);
           folder.add(r); // only replications up to the stopping one are kept
           calls += r.calls;

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import gammaln from "@stdlib/math-base-special-gammaln";
-import { phasesAreIrreducible } from "../teletraffic/qbd";
+import { gthStationary, phasesAreIrreducible } from "../teletraffic/qbd";
+import { erlangB } from "../teletraffic/erlang-b";
 
 /**
  * The scenario file shared by UI, API, CLI and worker. Rates and means are in one time
@@ -215,8 +216,7 @@ export const runSchema = z
       ctx.addIssue({ code: "custom", path: ["callsPerReplication"], message: `replications x callsPerReplication must be <= ${LIMITS.totalCalls}` });
   });
 
-export const scenarioSchema = z
-  .strictObject({
+const scenarioBase = z.strictObject({
     servers: z.number().int("must be an integer").min(1, "must be >= 1").max(LIMITS.servers, `must be <= ${LIMITS.servers}`),
     waitingPositions: z.number().int("must be an integer").min(0, "must be >= 0").max(LIMITS.waitingPositions, `must be <= ${LIMITS.waitingPositions}`).default(0),
     patience: lawSchema.optional(),
@@ -224,13 +224,98 @@ export const scenarioSchema = z
     holding: lawSchema,
     retrials: retrialsSchema.optional(),
     run: runSchema,
-  })
-  .superRefine((v, ctx) => {
+  });
+
+export const scenarioSchema = scenarioBase.superRefine((v, ctx) => {
     if (v.patience && v.waitingPositions === 0)
       ctx.addIssue({ code: "custom", path: ["patience"], message: "needs waitingPositions > 0" });
-    if (v.arrivals.process === "batch" && v.arrivals.admission === "all-or-nothing" && v.arrivals.batchSize.law === "fixed" && v.arrivals.batchSize.value > v.servers + v.waitingPositions)
-      ctx.addIssue({ code: "custom", path: ["arrivals", "batchSize", "value"], message: "a batch larger than servers + waitingPositions is always refused" });
+    // Why: only `fixed` was checked, so e.g. uniform {min: 9} on 5 servers ran and reported
+    // call congestion 1. Any law whose smallest possible batch exceeds the capacity is refused.
+    if (v.arrivals.process === "batch" && v.arrivals.admission === "all-or-nothing") {
+      const b = v.arrivals.batchSize;
+      const capacity = v.servers + v.waitingPositions;
+      const smallest =
+        b.law === "fixed" ? b.value : b.law === "uniform" ? b.min : b.law === "empirical" ? Math.min(...b.values.filter((_, i) => b.probabilities[i] > 0)) : 1;
+      const field = b.law === "fixed" ? "value" : b.law === "uniform" ? "min" : "values";
+      if (smallest > capacity)
+        ctx.addIssue({ code: "custom", path: ["arrivals", "batchSize", field], message: `a batch larger than servers + waitingPositions (${capacity}) is always refused` });
+    }
+    // zod runs this refinement even when a nested refinement (e.g. a non-square switching
+    // matrix) already failed; the rates are then not computable, and that issue is reported.
+    try {
+      checkWorkload(v, ctx);
+    } catch {
+      // nothing to add
+    }
   });
+
+/** Cross-field rules on the amount of work a scenario asks for. */
+function checkWorkload(v: z.output<typeof scenarioBase>, ctx: z.RefinementCtx): void {
+    // Why: with persistence 1 and no attempt limit every refused call retries until served, so
+    // the retrying population grows without bound when the mean offered traffic is at least
+    // the number of servers; the event count then grows quadratically and a run never ends.
+    // (Finite sources cannot overload: the sources themselves bound the retrying population.)
+    const r = v.retrials;
+    if (r && r.persistence === 1 && r.maxAttempts === undefined && v.arrivals.process !== "finite-source") {
+      const traffic = freshCallRate(v.arrivals, lawMean(v.holding)) * lawMean(v.holding);
+      if (traffic >= v.servers)
+        ctx.addIssue({
+          code: "custom",
+          path: ["retrials", "maxAttempts"],
+          message: `required when persistence is 1 and the offered traffic (${Number(traffic.toPrecision(6))} E) is at least servers (${v.servers}): the retrying calls would grow without bound`,
+        });
+    }
+    // Why: LIMITS.totalCalls was only checked for callsPerReplication, so a horizon of 1e300 or a
+    // warm-up of 1e8 calls x 10 000 replications was accepted and ran for ever. The warm-up and
+    // the horizon are converted to fresh arrivals (primary-group arrivals included for overflow)
+    // at the mean rate.
+    const rate = arrivalEventRate(v.arrivals, lawMean(v.holding));
+    const perReplication =
+      (v.run.callsPerReplication ?? (v.run.horizon ?? 0) * rate) + (v.run.warmupCalls ?? 0) + (v.run.warmupTime ?? 0) * rate;
+    if (perReplication * v.run.replications > LIMITS.totalCalls)
+      ctx.addIssue({
+        code: "custom",
+        path: ["run", v.run.horizon !== undefined ? "horizon" : v.run.warmupTime !== undefined ? "warmupTime" : "warmupCalls"],
+        message: `about ${Number((perReplication * v.run.replications).toPrecision(3))} calls in all (replications x (warm-up + measured)); must be <= ${LIMITS.totalCalls}`,
+      });
+}
+
+function mmppMeanRate(rates: number[], switching: number[][]): number {
+  const k = rates.length;
+  if (k === 1) return rates[0];
+  const q = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) q[i * k + j] = switching[i][j];
+  const pi = gthStationary(q, k);
+  return pi ? rates.reduce((s, r, i) => s + r * pi[i], 0) : Math.max(...rates);
+}
+
+/** Mean fresh-call rate at the group under study with no blocking (overflow: the overflow rate). */
+function freshCallRate(a: Arrivals, meanHolding: number): number {
+  switch (a.process) {
+    case "poisson":
+      return a.rate;
+    case "mmpp":
+      return mmppMeanRate(a.rates, a.switching);
+    case "on-off":
+      return (a.onRate * a.meanOn) / (a.meanOn + a.meanOff);
+    case "renewal":
+      return 1 / lawMean(a.interarrival);
+    case "batch":
+      return a.rate * batchMean(a.batchSize);
+    case "overflow":
+      return a.primaries.reduce((s, p) => s + p.traffic * erlangB(p.servers, p.traffic), 0) / meanHolding;
+    case "finite-source":
+      return (a.sources * a.idleRate) / (1 + a.idleRate * meanHolding);
+    case "time-varying":
+      return a.profile.reduce((s, p) => s + p.rate * p.duration, 0) / a.profile.reduce((s, p) => s + p.duration, 0);
+  }
+}
+
+/** Fresh arrivals per time unit that cost work: for overflow every primary-group arrival counts. */
+function arrivalEventRate(a: Arrivals, meanHolding: number): number {
+  if (a.process === "overflow") return a.primaries.reduce((s, p) => s + p.traffic, 0) / meanHolding;
+  return freshCallRate(a, meanHolding);
+}
 
 export type Scenario = z.infer<typeof scenarioSchema>;
 export type ScenarioInput = z.input<typeof scenarioSchema>;
