@@ -134,9 +134,9 @@ export class LawSampler {
       case 5:
         return this.b * rng.gamma(this.a);
       case 6:
-        return this.a * Math.pow(-Math.log(rng.next()), this.b);
+        return this.a * Math.pow(-Math.log(rng.next52()), this.b);
       case 7:
-        return this.a * Math.pow(rng.next(), this.b);
+        return this.a * Math.pow(rng.next52(), this.b);
       case 8:
         return this.a + this.b * rng.next();
       default:

@@ -138,3 +138,21 @@ describe("uniform generator (xoshiro128**, SplitMix64 seeding)", () => {
     expect(Array.from({ length: 8 }, () => c.next())).not.toEqual(sa);
   });
 });
+
+describe("52-bit uniforms for heavy-tailed laws", () => {
+  it("stay strictly inside (0, 1) at the extreme words and are uniform in mean", () => {
+    // (k + 0.5) / 2^52 at k = 0 and k = 2^52 - 1: the largest double below 1 is 1 - 2^-53.
+    expect((0 + 0.5) * 2 ** -52).toBeGreaterThan(0);
+    expect((2 ** 52 - 1 + 0.5) * 2 ** -52).toBeLessThan(1);
+    const rng = new Random(11, 0, 0);
+    const n = 200_000;
+    let sum = 0;
+    for (let i = 0; i < n; i++) {
+      const u = rng.next52();
+      expect(u > 0 && u < 1).toBe(true);
+      sum += u;
+    }
+    // Mean of U(0,1) is 1/2 with standard error sqrt(1/12/n); 5 standard errors.
+    expect(Math.abs(sum / n - 0.5)).toBeLessThan(5 * Math.sqrt(1 / 12 / n));
+  });
+});
