@@ -1,7 +1,7 @@
 // Embedded PostgreSQL from Debian's packages, run as the `postgres` OS user on 127.0.0.1 only.
 // Data and socket live outside the source tree: a socket inside it breaks the build's file scanners.
 import { execFileSync, spawnSync } from "node:child_process";
-import { existsSync, mkdirSync, readdirSync, chownSync, appendFileSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, chownSync, appendFileSync, readFileSync, rmSync } from "node:fs";
 import net from "node:net";
 import path from "node:path";
 
@@ -108,6 +108,24 @@ function psql(binDir: string, config: EmbeddedPostgresConfig, sql: string, datab
 
 const quoteLiteral = (value: string) => `'${value.replace(/'/g, "''")}'`;
 
+/**
+ * A machine stopped without a clean shutdown leaves postmaster.pid behind; if its PID now belongs to
+ * some other program, PostgreSQL refuses to start. Such a lock file (and the socket's) is stale.
+ */
+export function removeStaleLockFiles(config: EmbeddedPostgresConfig): string[] {
+  const removed: string[] = [];
+  for (const file of [path.join(config.dataDir, "postmaster.pid"), path.join(config.socketDir, `.s.PGSQL.${config.port}.lock`)]) {
+    if (!existsSync(file)) continue;
+    const pid = Number(readFileSync(file, "utf8").split("\n")[0]);
+    const command = Number.isInteger(pid) && pid > 0 ? spawnSync("ps", ["-o", "comm=", "-p", String(pid)], { encoding: "utf8" }).stdout.trim() : "";
+    if (command !== "postgres") {
+      rmSync(file, { force: true });
+      removed.push(file);
+    }
+  }
+  return removed;
+}
+
 /** Idempotent: initdb once, start if stopped, create role and database if missing. */
 export async function startEmbeddedPostgres(
   config: EmbeddedPostgresConfig,
@@ -131,6 +149,7 @@ export async function startEmbeddedPostgres(
         3,
       );
     }
+    for (const file of removeStaleLockFiles(config)) log(`Removed a stale lock file left by an unclean stop: ${file}`);
     const logFile = path.join(path.dirname(config.dataDir), `postgres-${config.port}.log`);
     appendFileSync(logFile, "");
     chownSync(logFile, Number(execFileSync("id", ["-u", "postgres"]).toString()), Number(execFileSync("id", ["-g", "postgres"]).toString()));

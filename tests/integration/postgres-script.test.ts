@@ -32,3 +32,25 @@ describe("embedded PostgreSQL script", () => {
     }
   });
 });
+
+describe("stale lock files", () => {
+  it("removes lock files whose PID is not a running PostgreSQL process", async () => {
+    const { removeStaleLockFiles } = await import("@/db/postgres");
+    const { mkdirSync, writeFileSync, existsSync } = await import("node:fs");
+    const config: EmbeddedPostgresConfig = {
+      dataDir: path.join(scratchRoot, "stale-data"),
+      socketDir: path.join(scratchRoot, "stale-socket"),
+      port: 1,
+      database: "unused",
+      user: "unused",
+      password: "unused",
+    };
+    mkdirSync(config.dataDir, { recursive: true });
+    mkdirSync(config.socketDir, { recursive: true });
+    // This test process is alive but is not postgres: exactly the reused-PID case after a crash.
+    writeFileSync(path.join(config.dataDir, "postmaster.pid"), `${process.pid}\n${config.dataDir}\n`);
+    writeFileSync(path.join(config.socketDir, ".s.PGSQL.1.lock"), `999999999\n`);
+    expect(removeStaleLockFiles(config)).toHaveLength(2);
+    expect(existsSync(path.join(config.dataDir, "postmaster.pid"))).toBe(false);
+  });
+});
