@@ -220,7 +220,7 @@ export function gaussSeidelEnvironmentLossChain(
 ): { pi: Float64Array; sweeps: number; residual: number } | null {
   const k = process.phases;
   const n = servers;
-  const { inStart, inFrom, inRate, outRate } = process;
+  const { outRate } = process;
   const pi = Float64Array.from(initial);
   let maxRate = 0;
   for (let l = 0; l < k; l++) maxRate = Math.max(maxRate, outRate[l] + upRates[l] + n * mu);
@@ -231,10 +231,7 @@ export function gaussSeidelEnvironmentLossChain(
     for (let j = 0; j <= n; j++) {
       const base = j * k;
       for (let l = 0; l < k; l++) {
-        let inflow = 0;
-        for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
-        if (j > 0) inflow += pi[base - k + l] * upRates[l];
-        if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
+        const inflow = environmentInflow(n, process, upRates, mu, pi, j, l);
         const out = outRate[l] + (j < n ? upRates[l] : 0) + j * mu;
         const value = out > 0 ? inflow / out : pi[base + l];
         change += Math.abs(value - pi[base + l]);
@@ -256,19 +253,27 @@ export function gaussSeidelEnvironmentLossChain(
   return null;
 }
 
+/** Probability flow into state (level j, phase l) of the environment loss chain. */
+function environmentInflow(n: number, process: SparsePhaseProcess, upRates: Float64Array, mu: number, pi: Float64Array, j: number, l: number): number {
+  const k = process.phases;
+  const { inStart, inFrom, inRate } = process;
+  const base = j * k;
+  let inflow = 0;
+  for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
+  if (j > 0) inflow += pi[base - k + l] * upRates[l];
+  if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
+  return inflow;
+}
+
 /** ‖π Q‖₁ for the environment loss chain. */
 function environmentResidual(n: number, process: SparsePhaseProcess, upRates: Float64Array, mu: number, pi: Float64Array): number {
   const k = process.phases;
-  const { inStart, inFrom, inRate, outRate } = process;
+  const { outRate } = process;
   let residual = 0;
   for (let j = 0; j <= n; j++) {
-    const base = j * k;
     for (let l = 0; l < k; l++) {
-      let inflow = 0;
-      for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
-      if (j > 0) inflow += pi[base - k + l] * upRates[l];
-      if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
-      residual += Math.abs(inflow - pi[base + l] * (outRate[l] + (j < n ? upRates[l] : 0) + j * mu));
+      const inflow = environmentInflow(n, process, upRates, mu, pi, j, l);
+      residual += Math.abs(inflow - pi[j * k + l] * (outRate[l] + (j < n ? upRates[l] : 0) + j * mu));
     }
   }
   return residual;
