@@ -5,7 +5,7 @@ import { fileURLToPath } from "node:url";
 const here = path.dirname(fileURLToPath(import.meta.url));
 
 const root = path.resolve(here, "..");
-const alias = { "@": root, "server-only": path.resolve(here, "support/server-only-stub.ts") };
+const alias = { "@": root, "server-only": path.resolve(here, "support/server-only-shim.ts") };
 
 export default defineConfig({
   root,
