@@ -5,7 +5,7 @@ export interface SkeletonProps {
   className?: string;
 }
 
-/** Decorative placeholder; pair the loading region with aria-busy or a Spinner label for screen readers. */
+/** Decorative loading shape; pair the loading region with aria-busy or a Spinner label for screen readers. */
 export function Skeleton({ className }: SkeletonProps) {
   return <div aria-hidden="true" className={cn("h-4 animate-pulse rounded-md bg-basin-100 motion-reduce:animate-none", className)} />;
 }
