@@ -1,3 +1,4 @@
+import Link from "next/link";
 import type { ReactNode } from "react";
 import { Card, CardBody } from "@/components/ui";
 
@@ -14,5 +15,15 @@ export function AuthFrame({ title, subtitle, children }: { title: string; subtit
         <CardBody>{children}</CardBody>
       </Card>
     </main>
+  );
+}
+
+export function SignInLink({ children }: { children: ReactNode }) {
+  return (
+    <p className="mt-4 text-sm">
+      <Link href="/sign-in" className="font-medium text-basin-700 underline">
+        {children}
+      </Link>
+    </p>
   );
 }

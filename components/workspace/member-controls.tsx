@@ -1,14 +1,14 @@
 "use client";
 
-import { useState, useTransition } from "react";
-import { Button, ConfirmDialog, Select, toast } from "@/components/ui";
+import { useTransition } from "react";
+import { Select, toast } from "@/components/ui";
 import { workspaceRoles, type WorkspaceRole } from "@/lib/auth/roles";
 import { changeMemberRoleAction, removeMemberAction } from "@/app/w/[workspace]/members/actions";
+import { ConfirmActionButton } from "./confirm-action-button";
 
 /** Role picker and remove button for one member row (admins only; the server checks again). */
 export function MemberControls({ workspaceSlug, userId, email, role }: { workspaceSlug: string; userId: string; email: string; role: WorkspaceRole }) {
   const [pending, startTransition] = useTransition();
-  const [confirming, setConfirming] = useState(false);
   return (
     <div className="flex items-center gap-2">
       <Select
@@ -30,25 +30,13 @@ export function MemberControls({ workspaceSlug, userId, email, role }: { workspa
           </option>
         ))}
       </Select>
-      <Button variant="ghost" size="sm" onClick={() => setConfirming(true)}>
-        Remove
-      </Button>
-      <ConfirmDialog
-        open={confirming}
-        onClose={() => setConfirming(false)}
+      <ConfirmActionButton
+        label="Remove"
         title="Remove this member?"
         message={`${email} loses access to this workspace at once.`}
         confirmLabel="Remove"
-        danger
-        pending={pending}
-        onConfirm={() =>
-          startTransition(async () => {
-            const result = await removeMemberAction(workspaceSlug, userId);
-            if (result.ok) toast.success(result.message ?? "Removed.");
-            else toast.error(result.message);
-            setConfirming(false);
-          })
-        }
+        successMessage="Removed."
+        run={() => removeMemberAction(workspaceSlug, userId)}
       />
     </div>
   );

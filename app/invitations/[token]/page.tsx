@@ -1,8 +1,7 @@
 import type { Metadata } from "next";
-import Link from "next/link";
 import { getDatabase } from "@/db/client";
 import { findOpenInvitationByToken } from "@/db/queries/invitations";
-import { AuthFrame } from "@/components/auth/auth-frame";
+import { AuthFrame, SignInLink } from "@/components/auth/auth-frame";
 import { AcceptInvitationForm, JoinWithExistingAccount } from "@/components/auth/accept-invitation-form";
 import { Callout, RoleBadge } from "@/components/ui";
 
@@ -25,11 +24,7 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         <Callout tone="warning" title="This link cannot be used">
           {closedReasons[found.status]}
         </Callout>
-        <p className="mt-4 text-sm">
-          <Link href="/sign-in" className="font-medium text-basin-700 underline">
-            Go to sign-in
-          </Link>
-        </p>
+        <SignInLink>Go to sign-in</SignInLink>
       </AuthFrame>
     );
   }

@@ -1,6 +1,5 @@
 import type { Metadata } from "next";
-import Link from "next/link";
-import { AuthFrame } from "@/components/auth/auth-frame";
+import { AuthFrame, SignInLink } from "@/components/auth/auth-frame";
 
 export const metadata: Metadata = { title: "Check your e-mail" };
 
@@ -10,11 +9,7 @@ export default function CheckEmailPage() {
       <p className="text-sm text-basin-800">
         If that address belongs to a Spillway account, a sign-in link is on its way. It works once and expires in 24 hours.
       </p>
-      <p className="mt-4 text-sm">
-        <Link href="/sign-in" className="font-medium text-basin-700 underline">
-          Back to sign-in
-        </Link>
-      </p>
+        <SignInLink>Back to sign-in</SignInLink>
     </AuthFrame>
   );
 }
