@@ -1,6 +1,7 @@
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import * as schema from "./schema";
+import { databaseUrl } from "../lib/config";
 
 export type Database = NodePgDatabase<typeof schema>;
 
@@ -14,9 +15,7 @@ const globalForDb = globalThis as unknown as { spillwayDb?: { db: Database; pool
 /** The process-wide connection pool for DATABASE_URL (survives Next's module reloads). */
 export function getDatabase(): Database {
   if (!globalForDb.spillwayDb) {
-    const url = process.env.DATABASE_URL;
-    if (!url) throw new Error("DATABASE_URL is not set; start Spillway with `npm start`, which sets it.");
-    globalForDb.spillwayDb = createDatabase(url);
+    globalForDb.spillwayDb = createDatabase(databaseUrl());
   }
   return globalForDb.spillwayDb.db;
 }

@@ -1,5 +1,5 @@
 // The demo workspace: invented names only (no real organisations, people or places).
-import type { WorkspaceRole } from "../lib/auth/roles";
+import type { WorkspaceRole } from "../lib/schemas/roles";
 
 export const demoWorkspaces = [
   {

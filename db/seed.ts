@@ -3,7 +3,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { createDatabase, type Database } from "./client";
 import { demoAccounts, demoWorkspaces } from "./demo-data";
 import { memberships, users, workspaces } from "./schema";
-import { hashPassword, verifyPassword } from "../lib/auth/password";
+import { hashPassword, verifyPassword } from "../lib/secrets/password";
 
 export async function seedDemo(db: Database): Promise<void> {
   await db.transaction(async (tx) => {

@@ -1,6 +1,6 @@
 // The background worker: pg-boss on the same PostgreSQL. Handlers are registered per queue as features land.
 import PgBoss from "pg-boss";
-import { allQueueNames } from "./queues";
+import { allQueueNames } from "../lib/jobs/contracts";
 
 export async function startWorker(databaseUrl: string, log: (line: string) => void = console.log) {
   const boss = new PgBoss({ connectionString: databaseUrl, application_name: "spillway-worker" });

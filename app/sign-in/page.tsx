@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { currentUser } from "@/lib/auth/guard";
+import { safeReturnPath } from "@/lib/auth/request-checks";
 import { AuthFrame } from "@/components/auth/auth-frame";
 import { SignInForms } from "@/components/auth/sign-in-forms";
 import { Callout } from "@/components/ui";
@@ -15,7 +16,8 @@ const linkErrors: Record<string, string> = {
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
   const params = await searchParams;
-  if (await currentUser()) redirect(params.returnTo?.startsWith("/") ? params.returnTo : "/");
+  const returnTo = safeReturnPath(params.returnTo);
+  if (await currentUser()) redirect(returnTo);
   const error = params.error ? (linkErrors[params.error] ?? "Sign-in failed; please try again.") : null;
   return (
     <AuthFrame title="Sign in" subtitle="Size loss systems against the traffic you really have.">
@@ -26,7 +28,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
             {error}
           </Callout>
         )}
-        <SignInForms returnTo={params.returnTo} />
+        <SignInForms returnTo={returnTo} />
       </div>
     </AuthFrame>
   );

@@ -1,14 +1,14 @@
-import { createHash, randomBytes } from "node:crypto";
 import { and, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import type { Database } from "../client";
 import { invitations, memberships, users, workspaces } from "../schema";
 import { recordAudit } from "./audit";
 import { RecordInputError } from "./errors";
-import type { WorkspaceRole } from "@/lib/auth/roles";
+import type { WorkspaceRole } from "@/lib/schemas/roles";
 import { invitationValidityDays } from "@/lib/schemas/invitation";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/secrets/password";
+import { hashToken as hashInvitationToken, newSecretToken } from "@/lib/secrets/tokens";
 
-export const hashInvitationToken = (token: string) => createHash("sha256").update(token).digest("hex");
+export { hashInvitationToken };
 
 export class InvitationError extends RecordInputError {
   constructor(message: string, field = "token") {
@@ -22,7 +22,7 @@ export async function createInvitation(
   /** Sends the link inside the transaction: if delivery fails, no invitation is left behind. */
   deliver: (token: string, invitation: typeof invitations.$inferSelect) => Promise<void>,
 ) {
-  const token = randomBytes(32).toString("base64url");
+  const token = newSecretToken();
   const now = params.now ?? new Date();
   const expiresAt = new Date(now.getTime() + invitationValidityDays * 86_400_000);
   return db.transaction(async (tx) => {

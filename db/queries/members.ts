@@ -3,7 +3,8 @@ import type { Database } from "../client";
 import { memberships, users } from "../schema";
 import { recordAudit } from "./audit";
 import { RecordInputError } from "./errors";
-import type { WorkspaceRole } from "@/lib/auth/roles";
+import { endSessionsIfNoWorkspace } from "./users";
+import type { WorkspaceRole } from "@/lib/schemas/roles";
 
 export async function listMembers(db: Database, workspaceId: string) {
   return db
@@ -53,6 +54,7 @@ export async function removeMember(db: Database, params: { workspaceId: string; 
     if (!current) return null;
     if (current.role === "admin" && admins.length === 1) throw new MembershipError("This is the workspace's only admin; make someone else admin first.", "userId");
     await tx.delete(memberships).where(and(eq(memberships.workspaceId, params.workspaceId), eq(memberships.userId, params.userId)));
+    await endSessionsIfNoWorkspace(tx, params.userId);
     await recordAudit(tx, { workspaceId: params.workspaceId, actorUserId: params.actorUserId, action: "member.removed", subjectType: "user", subjectId: params.userId, detail: { role: current.role } });
     return current;
   });

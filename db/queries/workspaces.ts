@@ -1,7 +1,7 @@
 import { and, asc, eq } from "drizzle-orm";
 import type { Database } from "../client";
 import { memberships, workspaces } from "../schema";
-import type { WorkspaceRole } from "@/lib/auth/roles";
+import type { WorkspaceRole } from "@/lib/schemas/roles";
 
 export interface WorkspaceMembership {
   workspace: typeof workspaces.$inferSelect;

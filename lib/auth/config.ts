@@ -3,17 +3,21 @@ import NextAuth, { CredentialsSignin, type NextAuthConfig } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
 import Nodemailer from "next-auth/providers/nodemailer";
 import { DrizzleAdapter } from "@auth/drizzle-adapter";
-import { z } from "zod";
 import { getDatabase } from "@/db/client";
 import { accounts, sessions, users, verificationTokens } from "@/db/schema";
-import { countRecentFailedSignIns, findUserByEmail, recordSignInAttempt } from "@/db/queries/users";
-import { verifyPassword } from "./password";
-import { emailSchema } from "@/lib/schemas/account";
-import { isSignInLocked, signInRateLimit } from "./rate-limit";
+import { beginSignInAttempt, createSession, endSession, findUserByEmail, isSessionActive, markSignInSucceeded } from "@/db/queries/users";
+import { decoyPasswordHash, verifyPassword } from "@/lib/secrets/password";
+import { signInSchema } from "@/lib/schemas/account";
+import { signInLimits } from "@/lib/schemas/sign-in-limits";
 import { sendMail } from "@/lib/mail/transport";
 import { signInLinkMail } from "@/lib/mail/messages";
+import { mailConfig, servedOverHttps, trustProxy } from "@/lib/config";
+import { clientAddress } from "./client-address";
 
 export const authBasePath = "/api/v1/auth";
+
+/** How long a browser session lasts; the server-side row expires with it. */
+const sessionMaxAgeSeconds = 14 * 24 * 60 * 60;
 
 class InvalidCredentials extends CredentialsSignin {
   code = "invalid-credentials";
@@ -22,13 +26,13 @@ class TooManyAttempts extends CredentialsSignin {
   code = "too-many-attempts";
 }
 
-const credentialsSchema = z.object({ email: emailSchema, password: z.string().min(1).max(200) });
-
 const buildConfig = (): NextAuthConfig => ({
   basePath: authBasePath,
   trustHost: true,
-  // Credentials sign-in works only with JWT sessions; roles are read per workspace on every request instead.
-  session: { strategy: "jwt" },
+  // Credentials sign-in works only with JWT sessions; each JWT names a server-side session row that sign-out
+  // deletes, and roles are read per workspace on every request.
+  session: { strategy: "jwt", maxAge: sessionMaxAgeSeconds },
+  useSecureCookies: servedOverHttps(),
   adapter: DrizzleAdapter(getDatabase(), {
     usersTable: users,
     accountsTable: accounts,
@@ -46,28 +50,31 @@ const buildConfig = (): NextAuthConfig => ({
   providers: [
     Credentials({
       credentials: { email: {}, password: {} },
-      async authorize(raw) {
-        const parsed = credentialsSchema.safeParse(raw);
+      async authorize(raw, request) {
+        const parsed = signInSchema.safeParse(raw);
         if (!parsed.success) throw new InvalidCredentials();
         const { email, password } = parsed.data;
         const db = getDatabase();
-        const since = new Date(Date.now() - signInRateLimit.windowMinutes * 60_000);
-        if (isSignInLocked(await countRecentFailedSignIns(db, email, since))) throw new TooManyAttempts();
+        const client = clientAddress(request.headers.get("x-forwarded-for"), trustProxy());
+        const attempt = await beginSignInAttempt(db, { email, client });
+        if (!attempt.allowed) throw new TooManyAttempts();
         const user = await findUserByEmail(db, email);
-        const ok = !!user?.passwordHash && (await verifyPassword(password, user.passwordHash));
-        await recordSignInAttempt(db, email, ok);
+        // Unknown addresses are checked against a decoy hash, so they answer as slowly as known ones.
+        const ok = (await verifyPassword(password, user?.passwordHash ?? (await decoyPasswordHash()))) && !!user?.passwordHash;
         if (!ok || !user) throw new InvalidCredentials();
+        await markSignInSucceeded(db, attempt.attemptId);
         return { id: user.id, email: user.email, name: user.name };
       },
     }),
     Nodemailer({
       id: "email-link",
       name: "E-mail link",
-      server: process.env.SMTP_URL ?? "smtp://127.0.0.1:2525",
-      from: process.env.MAIL_FROM ?? "Spillway <no-reply@spillway.test>",
-      maxAge: 24 * 60 * 60,
-      async sendVerificationRequest({ identifier, url }) {
-        await sendMail(signInLinkMail(identifier, url));
+      server: mailConfig.smtpUrl() ?? "smtp://127.0.0.1:2525",
+      from: mailConfig.from(),
+      maxAge: signInLimits.linkMaxAgeHours * 60 * 60,
+      sendVerificationRequest({ identifier, url }) {
+        // Not awaited: the answer must not take longer for addresses that have an account.
+        sendMail(signInLinkMail(identifier, url)).catch((error) => console.error(`sign-in link to ${identifier} not sent:`, error));
       },
     }),
   ],
@@ -79,13 +86,26 @@ const buildConfig = (): NextAuthConfig => ({
       }
       return true;
     },
-    jwt({ token, user }) {
-      if (user?.id) token.sub = user.id;
+    async jwt({ token, user }) {
+      const db = getDatabase();
+      if (user?.id) {
+        const sessionId = crypto.randomUUID();
+        await createSession(db, { userId: user.id, sessionId, expires: new Date(Date.now() + sessionMaxAgeSeconds * 1000) });
+        return { ...token, sub: user.id, sid: sessionId };
+      }
+      // A cookie whose session row is gone (signed out, removed from the last workspace) signs nobody in.
+      if (!token.sub || !token.sid || !(await isSessionActive(db, { userId: token.sub, sessionId: token.sid }))) return null;
       return token;
     },
     session({ session, token }) {
       if (token.sub) session.user.id = token.sub;
       return session;
+    },
+  },
+  events: {
+    async signOut(message) {
+      const sid = "token" in message ? message.token?.sid : undefined;
+      if (sid) await endSession(getDatabase(), sid);
     },
   },
 });

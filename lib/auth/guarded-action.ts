@@ -1,20 +1,27 @@
 import "server-only";
+import type { z } from "zod";
 import { AccessError } from "./access";
 import { requireWorkspaceAccess, type WorkspaceAccess } from "./guard";
 import type { WorkspaceAction } from "./roles";
-import type { ActionResult } from "@/lib/schemas/validation";
+import { parseActionInput, type ActionResult } from "@/lib/schemas/validation";
 
 /**
- * Server actions' shared frame: the guard first, then the work; refusals and input errors come back
- * as an ActionResult the form can show. Anything else (including Next's redirects) propagates.
+ * Server actions' shared frame: the guard first, then the input parsed with the concept's schema, then the
+ * work; refusals and input errors come back as an ActionResult the form can show. Anything else (including
+ * Next's redirects) propagates.
  */
-export async function guardedAction<T>(
+export async function guardedAction<S extends z.ZodType, T>(
   workspaceSlug: string,
   action: WorkspaceAction,
-  work: (access: WorkspaceAccess) => Promise<ActionResult<T>>,
+  schema: S,
+  input: unknown,
+  work: (access: WorkspaceAccess, value: z.output<S>) => Promise<ActionResult<T>>,
 ): Promise<ActionResult<T>> {
   try {
-    return await work(await requireWorkspaceAccess(workspaceSlug, action));
+    const access = await requireWorkspaceAccess(workspaceSlug, action);
+    const parsed = parseActionInput(schema, input);
+    if (!parsed.ok) return parsed;
+    return await work(access, parsed.data);
   } catch (error) {
     if (error instanceof AccessError) return { ok: false, message: error.message };
     const input = error as { kind?: unknown; field?: unknown };

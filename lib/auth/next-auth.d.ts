@@ -5,3 +5,10 @@ declare module "next-auth" {
     user: { id: string } & DefaultSession["user"];
   }
 }
+
+declare module "@auth/core/jwt" {
+  interface JWT {
+    /** The server-side session row this cookie belongs to (db/queries/users.ts). */
+    sid?: string;
+  }
+}

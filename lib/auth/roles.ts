@@ -1,9 +1,9 @@
-// Pure role model: no database or framework imports, so the guard's decisions are unit-testable.
+// Pure permission model: no database or framework imports, so the guard's decisions are unit-testable.
+// The role list itself lives in lib/schemas/roles.ts, which db/ imports too.
 import { z } from "zod";
+import { workspaceRoles, type WorkspaceRole } from "../schemas/roles";
 
-export const workspaceRoles = ["admin", "engineer", "reviewer", "viewer"] as const;
-export const workspaceRoleSchema = z.enum(workspaceRoles);
-export type WorkspaceRole = z.infer<typeof workspaceRoleSchema>;
+export { workspaceRoles, workspaceRoleSchema, type WorkspaceRole } from "../schemas/roles";
 
 /** Everything the guard can be asked about. */
 export const workspaceActions = [

@@ -1,6 +1,6 @@
 import { readFileSync } from "node:fs";
 import { CliUsageError, formatNumber, type CliCommand } from "./command";
-import { parseScenario, runScenario, ScenarioError, type SimulationResult } from "../simulation";
+import { parseScenario, runScenario, ScenarioError, type SimulationResult } from "../simulation/node";
 
 /** Reads and validates a scenario file; every failure is an input error with one line. */
 export function readScenarioFile(file: string) {
@@ -115,6 +115,7 @@ export function simulationTable(result: SimulationResult): string {
     "",
     ...lines,
     "",
+    ...(result.warnings.length ? ["Warnings:", ...result.warnings.map((w) => `  ! ${w.measure ? `${w.measure}: ` : ""}${w.message}`), ""] : []),
     "References (* = every assumption met, the interval should cover it):",
     ...refs.map((r, i) => `  [${i + 1}] ${r.method}${r.exact ? " (exact)" : ""}: ${r.unavailable ? `unavailable: ${r.unavailable}` : r.assumptions}`),
   ].join("\n");

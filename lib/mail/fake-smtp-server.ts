@@ -3,6 +3,12 @@ import { SMTPServer } from "smtp-server";
 import { simpleParser } from "mailparser";
 import { createDatabase } from "../../db/client";
 import { capturedMail } from "../../db/schema";
+import { mailHeaders } from "./transport";
+
+const header = (parsed: { headers: Map<string, unknown> }, name: string): string | null => {
+  const value = parsed.headers.get(name);
+  return typeof value === "string" && value.trim() ? value.trim() : null;
+};
 
 export function startFakeSmtpServer(options: { port: number; databaseUrl: string }): Promise<{ close(): Promise<void> }> {
   const { db, pool } = createDatabase(options.databaseUrl, 2);
@@ -20,6 +26,8 @@ export function startFakeSmtpServer(options: { port: number; databaseUrl: string
             subject: parsed.subject ?? "",
             textBody: parsed.text ?? "",
             htmlBody: typeof parsed.html === "string" ? parsed.html : null,
+            workspaceId: header(parsed, mailHeaders.workspace),
+            kind: header(parsed, mailHeaders.kind) ?? "",
           });
           callback();
         })

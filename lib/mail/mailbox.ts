@@ -1,4 +1,6 @@
+import { mailConfig } from "@/lib/config";
+
 /** The development mailbox exists only while the local fake SMTP receiver stands in for real mail. */
 export function mailboxEnabled(): boolean {
-  return process.env.SPILLWAY_FAKE_MAIL === "1";
+  return mailConfig.fake();
 }

@@ -19,17 +19,20 @@ export function signInLinkMail(to: string, url: string): OutgoingMail {
   const ignore = "If that was not you, ignore this message; nothing changes.";
   return {
     to,
+    kind: "sign-in-link",
     subject: "Your Spillway sign-in link",
     text: `${intro}\n\nSign in: ${url}\n\n${ignore}\n`,
     html: layout([intro, ignore], { href: url, label: "Sign in to Spillway" }),
   };
 }
 
-export function invitationMail(params: { to: string; url: string; workspaceName: string; role: string; invitedBy: string; expiresAt: Date }): OutgoingMail {
+export function invitationMail(params: { to: string; url: string; workspaceId: string; workspaceName: string; role: string; invitedBy: string; expiresAt: Date }): OutgoingMail {
   const intro = `${params.invitedBy} invited you to the Spillway workspace "${params.workspaceName}" as ${params.role}.`;
   const expiry = `The invitation expires on ${params.expiresAt.toUTCString()}. Open it to choose a password and join.`;
   return {
     to: params.to,
+    kind: "invitation",
+    workspaceId: params.workspaceId,
     subject: `Invitation to ${params.workspaceName} on Spillway`,
     text: `${intro}\n${expiry}\n\nAccept: ${params.url}\n`,
     html: layout([intro, expiry], { href: params.url, label: "Accept the invitation" }),

@@ -1,9 +1,13 @@
-// Spillway simulation engine: pure TypeScript, no framework imports.
+// Spillway simulation engine, browser-safe entry: schema, plan, aggregate, results, references.
+// Node-only parts (thread pool, runScenario) are in ./node.ts.
 export { scenarioSchema, parseScenario, ScenarioError, formatPath, lawSchema, arrivalsSchema, batchSizeSchema, LIMITS, lawMean } from "./scenario";
 export type { Scenario, ScenarioInput, Law, BatchSizeLaw, Arrivals } from "./scenario";
 export { Replication, type ReplicationStats, type ReplicationOptions } from "./engine";
-export { runScenario, runReplication, ReplicationJob, SimulationCancelledError, type RunOptions } from "./run";
+export { ReplicationJob, runReplication, SimulationCancelledError, SLICE_EVENTS } from "./replication";
+export { aggregateReplications, mergeAggregates, ChunkFolder, aggregateCalls, type PartialAggregate, type ReplicationRecord } from "./aggregate";
+export { planRun, chunkRange, chunkCount, decideNext, callCongestionPrecision, expectedCallsPerReplication, PRECISION_MIN_REPLICATIONS, type RunPlan, type PlanDecision } from "./plan";
 export { simulationResultSchema, buildResult, type SimulationResult } from "./result";
+export { warningSchema, warningsFor, warningRules, type Warning } from "./warnings";
 export { referencesFor, referenceSchema, offeredTraffic, type Reference } from "./references";
 export { ratioInterval, mser5, type Interval } from "./estimators";
 export { Random, SUBSTREAM } from "./random";

@@ -1,8 +1,9 @@
 import { z } from "zod";
-import type { ReplicationStats } from "./engine";
+import type { PartialAggregate, ReplicationRecord } from "./aggregate";
 import { ratioInterval, type Interval } from "./estimators";
-import { referencesFor, referenceSchema, offeredTraffic } from "./references";
+import { referenceSchema, offeredTraffic, type Reference } from "./references";
 import type { Scenario } from "./scenario";
+import { warningSchema, warningsFor } from "./warnings";
 
 const intervalSchema = z.object({
   estimate: z.number(),
@@ -46,6 +47,12 @@ export const simulationResultSchema = z.object({
   /** Simulated time discarded per replication as warm-up. */
   warmupTime: z.object({ mean: z.number(), min: z.number(), max: z.number() }),
   references: z.array(referenceSchema),
+  /** Why the run ended where it did: all planned replications, or the precision stop's rule. */
+  stopReason: z.enum(["planned", "precision-met", "call-budget", "replication-limit", "cancelled"]),
+  /** Per-replication estimates in index order (for the convergence and spread charts). */
+  perReplication: z.object({ callCongestion: z.array(z.number()), timeCongestion: z.array(z.number()), calls: z.array(z.number()) }),
+  /** Machine-readable reasons not to trust a figure; empty when all is well. */
+  warnings: z.array(warningSchema),
 });
 export type SimulationResult = z.infer<typeof simulationResultSchema>;
 
@@ -75,21 +82,25 @@ function interval(y: number[], x: number[], confidence: number): Interval {
   };
 }
 
-/** Combines replications (in index order) into the stored result. */
-export function buildResult(scenario: Scenario, stats: ReplicationStats[], occupancyTotal?: Float64Array): SimulationResult {
+/**
+ * Builds the stored result from the folded aggregate of a run (see aggregate.ts). References are
+ * passed in because the worker computes them once per run and stores them beside the estimates.
+ */
+export function buildResult(
+  scenario: Scenario,
+  aggregate: PartialAggregate,
+  references: Reference[],
+  stopReason: SimulationResult["stopReason"] = "planned",
+): SimulationResult {
   const c = scenario.run.confidence;
-  const col = (f: (s: ReplicationStats) => number) => stats.map(f);
+  const stats = aggregate.records;
+  const col = (f: (s: ReplicationRecord) => number) => stats.map(f);
   const calls = col((s) => s.calls);
   const time = col((s) => s.time);
   const admitted = col((s) => s.admitted);
-  const servers = scenario.servers;
-  const occupancy = new Array<number>(servers + 1).fill(0);
   let totalTime = 0;
-  for (const s of stats) {
-    if (!occupancyTotal) for (let k = 0; k <= servers; k++) occupancy[k] += s.occupancy[k];
-    totalTime += s.time;
-  }
-  if (occupancyTotal) for (let k = 0; k <= servers; k++) occupancy[k] = occupancyTotal[k];
+  for (const s of stats) totalTime += s.time;
+  const occupancy = aggregate.occupancy;
   const warmups = col((s) => s.warmupCalls);
   const result: SimulationResult = {
     seed: scenario.run.seed,
@@ -104,7 +115,14 @@ export function buildResult(scenario: Scenario, stats: ReplicationStats[], occup
     occupancy: occupancy.map((v) => (totalTime > 0 ? v / totalTime : 0)),
     warmupCalls: summary(warmups),
     warmupTime: summary(col((s) => s.warmupTime)),
-    references: referencesFor(scenario),
+    references,
+    stopReason,
+    perReplication: {
+      callCongestion: stats.map((s) => (s.calls > 0 ? s.blockedFirst / s.calls : 0)),
+      timeCongestion: stats.map((s) => (s.time > 0 ? s.allBusyTime / s.time : 0)),
+      calls,
+    },
+    warnings: [],
   };
   if (scenario.retrials) {
     result.firstAttemptBlocking = result.callCongestion;
@@ -120,5 +138,6 @@ export function buildResult(scenario: Scenario, stats: ReplicationStats[], occup
     result.meanWaiting = interval(col((s) => s.queueIntegral), time, c);
     result.abandonmentProbability = interval(col((s) => s.abandoned), admitted, c);
   }
+  result.warnings = warningsFor(scenario, aggregate, result);
   return result;
 }

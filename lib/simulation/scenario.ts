@@ -206,6 +206,8 @@ export const runSchema = z
         maxCalls: positiveInt(LIMITS.totalCalls),
       })
       .optional(),
+    /** Replications per chunk of background work; part of the run's definition because the fold order follows it. Default: about 10^6 calls a chunk. */
+    chunkReplications: positiveInt(LIMITS.replications).optional(),
   })
   .superRefine((v, ctx) => {
     if ((v.callsPerReplication === undefined) === (v.horizon === undefined))
@@ -290,7 +292,7 @@ function mmppMeanRate(rates: number[], switching: number[][]): number {
 }
 
 /** Mean fresh-call rate at the group under study with no blocking (overflow: the overflow rate). */
-function freshCallRate(a: Arrivals, meanHolding: number): number {
+export function freshCallRate(a: Arrivals, meanHolding: number): number {
   switch (a.process) {
     case "poisson":
       return a.rate;

@@ -3,13 +3,11 @@ import { getDatabase } from "@/db/client";
 import { createInvitation } from "@/db/queries/invitations";
 import { invitationMail } from "@/lib/mail/messages";
 import { sendMail } from "@/lib/mail/transport";
+import { appUrl } from "@/lib/config";
 import type { WorkspaceAccess } from "@/lib/auth/guard";
 import type { z } from "zod";
 import type { invitationCreateSchema } from "@/lib/schemas/invitation";
 
-export function appUrl(): string {
-  return (process.env.APP_URL ?? "http://localhost:3000").replace(/\/$/, "");
-}
 
 /** Creates the invitation and e-mails its link; both or neither. */
 export async function inviteToWorkspace(access: WorkspaceAccess, input: z.output<typeof invitationCreateSchema>) {
@@ -21,6 +19,7 @@ export async function inviteToWorkspace(access: WorkspaceAccess, input: z.output
         invitationMail({
           to: created.email,
           url: `${appUrl()}/invitations/${token}`,
+          workspaceId: access.workspace.id,
           workspaceName: access.workspace.name,
           role: created.role,
           invitedBy: access.user.name ?? access.user.email,

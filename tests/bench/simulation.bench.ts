@@ -1,6 +1,6 @@
 // Simulation engine throughput: events per second on one core (plus one 2-thread figure).
 // Prints figures only; speed targets live here, never in timed tests.
-import { parseScenario, Replication, runScenario, type ScenarioInput } from "../../lib/simulation";
+import { parseScenario, Replication, runScenario, type ScenarioInput } from "../../lib/simulation/node";
 
 interface Case {
   name: string;

@@ -12,9 +12,8 @@ import {
   revokeInvitation,
 } from "@/db/queries/invitations";
 import { findMembershipBySlug } from "@/db/queries/workspaces";
-import { countRecentFailedSignIns, recordSignInAttempt } from "@/db/queries/users";
 import { decideAccess } from "@/lib/auth/access";
-import { verifyPassword } from "@/lib/auth/password";
+import { verifyPassword } from "@/lib/secrets/password";
 import { migratedScratchDatabase } from "./support/database";
 
 let scratch: Awaited<ReturnType<typeof migratedScratchDatabase>>;
@@ -120,19 +119,5 @@ describe("workspace isolation", () => {
     expect(await findInvitationInWorkspace(db, workspaceB, invitation.id)).not.toBeNull();
     expect(await revokeInvitation(db, { workspaceId: workspaceA, invitationId: invitation.id, actorUserId: outsider.id })).toBeNull();
     expect((await findInvitationInWorkspace(db, workspaceB, invitation.id))?.revokedAt).toBeNull();
-  });
-});
-
-describe("failed sign-in counting", () => {
-  it("counts failures inside the window and restarts after a success", async () => {
-    const email = "counted@example.test";
-    const windowStart = new Date(Date.now() - 15 * 60_000);
-    for (let i = 0; i < 3; i++) await recordSignInAttempt(db, email, false);
-    expect(await countRecentFailedSignIns(db, email, windowStart)).toBe(3);
-    expect(await countRecentFailedSignIns(db, "other@example.test", windowStart)).toBe(0);
-    await new Promise((r) => setTimeout(r, 5));
-    await recordSignInAttempt(db, email, true);
-    expect(await countRecentFailedSignIns(db, email, windowStart)).toBe(0);
-    expect(await countRecentFailedSignIns(db, email, new Date(Date.now() + 60_000))).toBe(0);
   });
 });

@@ -5,7 +5,7 @@ import { createDatabase } from "@/db/client";
 import { migrationsFolder, runMigrations } from "@/db/migrate";
 import { seedDemo } from "@/db/seed";
 import { demoAccounts, demoWorkspaces } from "@/db/demo-data";
-import { verifyPassword } from "@/lib/auth/password";
+import { verifyPassword } from "@/lib/secrets/password";
 import { createScratchDatabase } from "./support/database";
 
 let scratch: Awaited<ReturnType<typeof createScratchDatabase>>;

@@ -1,8 +1,7 @@
 import { describe, expect, it } from "vitest";
 import bcrypt from "bcryptjs";
-import { hashPassword, verifyPassword } from "@/lib/auth/password";
+import { hashPassword, verifyPassword } from "@/lib/secrets/password";
 import { emailSchema, newPasswordSchema, signInSchema } from "@/lib/schemas/account";
-import { isSignInLocked, signInRateLimit } from "@/lib/auth/rate-limit";
 
 describe("password hashing", () => {
   it("round-trips and rejects other passwords", async () => {
@@ -37,10 +36,5 @@ describe("account input", () => {
     expect(empty.error?.issues).toEqual([expect.objectContaining({ path: ["password"], message: "Enter your password." })]);
     expect(newPasswordSchema.safeParse("short").error?.issues[0].message).toBe("Use at least 10 characters.");
     expect(newPasswordSchema.safeParse("x".repeat(201)).error?.issues[0].message).toBe("Use at most 200 characters.");
-  });
-
-  it("locks after the configured number of failures", () => {
-    expect(isSignInLocked(signInRateLimit.maxFailures - 1)).toBe(false);
-    expect(isSignInLocked(signInRateLimit.maxFailures)).toBe(true);
   });
 });

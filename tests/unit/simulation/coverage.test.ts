@@ -4,7 +4,7 @@ import binomialCdf from "@stdlib/stats-base-dists-binomial-cdf";
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { describe, expect, it } from "vitest";
 import { erlangB } from "../../../lib/teletraffic";
-import { parseScenario, runScenario } from "../../../lib/simulation";
+import { parseScenario, runScenario } from "../../../lib/simulation/node";
 
 const RUNS = 600;
 const REPLICATIONS = 10;

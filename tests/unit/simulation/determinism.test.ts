@@ -1,6 +1,6 @@
 // Reproducibility: one stream per (seed, replication, substream), results combined in index order.
 import { describe, expect, it } from "vitest";
-import { parseScenario, Replication, runReplication, runScenario } from "../../../lib/simulation";
+import { parseScenario, Replication, runReplication, runScenario } from "../../../lib/simulation/node";
 
 const mixed = parseScenario({
   servers: 12,

@@ -1,6 +1,6 @@
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { expect } from "vitest";
-import { parseScenario, runScenario, type Interval, type ScenarioInput, type SimulationResult } from "../../../lib/simulation";
+import { parseScenario, runScenario, type Interval, type ScenarioInput, type SimulationResult } from "../../../lib/simulation/node";
 
 export async function simulate(input: ScenarioInput): Promise<SimulationResult> {
   return runScenario(parseScenario(input));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { parseScenario, runScenario, SimulationCancelledError } from "../../../lib/simulation";
+import { parseScenario, runScenario, SimulationCancelledError } from "../../../lib/simulation/node";
 
 const long = (threads: number) =>
   parseScenario({

@@ -2,7 +2,7 @@
 // the MSER-5 cut for batch arrivals, and inputs that were accepted although a run could never end
 // (or could only report congestion 1).
 import { describe, expect, it } from "vitest";
-import { mser5, parseScenario, Replication, runReplication, runScenario, ScenarioError, type ScenarioInput } from "../../../lib/simulation";
+import { mser5, parseScenario, Replication, runReplication, runScenario, ScenarioError, type ScenarioInput } from "../../../lib/simulation/node";
 import { erlangB } from "../../../lib/teletraffic";
 import { expectAgrees } from "./helpers";
 
@@ -31,7 +31,7 @@ describe("precision target with a horizon (calls vary per replication)", () => {
     holding: { law: "exponential", mean: 1 },
     // The target cannot be met, so the call budget decides; at this budget the old per-wave rule
     // ran 4 replications on one thread and 5 on two (and then exceeded maxCalls).
-    run: { seed: 9, replications: 3, horizon: 2_000, precision: { relativeHalfWidth: 0.001, maxCalls: 39_880 } },
+    run: { seed: 9, replications: 3, horizon: 2_000, precision: { relativeHalfWidth: 0.001, maxCalls: 39_880 }, chunkReplications: 1 },
   };
 
   it("stops where the rule applied replication by replication says, for 1 and 2 threads", async () => {

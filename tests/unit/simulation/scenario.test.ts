@@ -117,6 +117,7 @@ describe("JSON Schema of the scenario file", () => {
       callCongestion: interval, timeCongestion: interval, carriedTraffic: interval,
       occupancy: [0.5, 0.5], warmupCalls: { mean: 0, min: 0, max: 0 }, warmupTime: { mean: 0, min: 0, max: 0 },
       references: [{ method: "Erlang B", assumptions: "x", exact: true, callCongestion: 0.5 }],
+      stopReason: "planned", perReplication: { callCongestion: [0.1, 0.1], timeCongestion: [0.1, 0.1], calls: [5, 5] }, warnings: [],
     };
     expect(simulationResultSchema.safeParse(result).success).toBe(true);
     expect(simulationResultSchema.safeParse({ ...result, callCongestion: 0.1 }).success).toBe(false);

@@ -1,6 +1,6 @@
 import { sql } from "drizzle-orm";
 import { getDatabase } from "@/db/client";
-import { allQueueNames } from "@/worker/queues";
+import { allQueueNames } from "@/lib/jobs/contracts";
 
 export const dynamic = "force-dynamic";
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getDatabase } from "@/db/client";
-import { listCapturedMail } from "@/db/queries/mail";
+import { listWorkspaceMail } from "@/db/queries/mail";
 import { guardPage, requireWorkspaceAccess } from "@/lib/auth/guard";
 import { mailboxEnabled } from "@/lib/mail/mailbox";
 import { Callout, Card, CardBody, EmptyState, PageHeader } from "@/components/ui";
@@ -24,12 +24,12 @@ function linkify(text: string) {
 
 export default async function MailboxPage({ params }: { params: Promise<{ workspace: string }> }) {
   const { workspace: slug } = await params;
-  await guardPage(() => requireWorkspaceAccess(slug, "mailbox.read"), `/w/${slug}/mailbox`);
+  const access = await guardPage(() => requireWorkspaceAccess(slug, "mailbox.read"), `/w/${slug}/mailbox`);
   if (!mailboxEnabled()) notFound();
-  const messages = await listCapturedMail(getDatabase());
+  const messages = await listWorkspaceMail(getDatabase(), access.workspace.id);
   return (
     <div className="flex flex-col gap-6">
-      <PageHeader title="Mailbox" description="Everything this Spillway instance sent while the local mail receiver stood in for SMTP." />
+      <PageHeader title="Mailbox" description={`Mail this Spillway instance sent about ${access.workspace.name} while the local receiver stood in for SMTP: invitations and notices to its members. Sign-in links are never shown here.`} />
       <Callout tone="info" title="Development only">
         This page exists only while outgoing mail is captured locally; with a real SMTP_URL it is switched off.
       </Callout>

@@ -1,0 +1,72 @@
+// Every environment variable the running app reads, in one place. Server and Node scripts only: nothing the
+// browser bundles imports this file (client components get what they need as props).
+// Read lazily, so tests and `npm start` can set the environment before the first use.
+
+const env = (name: string): string | undefined => {
+  const value = process.env[name];
+  return value === undefined || value === "" ? undefined : value;
+};
+
+const positiveInteger = (name: string, fallback: number): number => {
+  const raw = env(name);
+  if (raw === undefined) return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value <= 0) throw new Error(`${name} must be a positive whole number, not "${raw}".`);
+  return value;
+};
+
+export function databaseUrl(): string {
+  const url = env("DATABASE_URL");
+  if (!url) throw new Error("DATABASE_URL is not set; start Spillway with `npm start`, which sets it.");
+  return url;
+}
+
+/** The address people use to reach the app (links in e-mail, the allowed Origin of state-changing requests). */
+export function appUrl(): string {
+  return (env("APP_URL") ?? "http://localhost:3000").replace(/\/$/, "");
+}
+
+export function appOrigin(): string {
+  return new URL(appUrl()).origin;
+}
+
+/**
+ * Served to browsers over HTTPS (directly or behind a TLS-terminating proxy): session cookies get `Secure`
+ * and responses carry Strict-Transport-Security. On when APP_URL starts with https:, or SPILLWAY_HTTPS=1.
+ */
+export function servedOverHttps(): boolean {
+  return appUrl().startsWith("https:") || env("SPILLWAY_HTTPS") === "1";
+}
+
+/**
+ * Behind a reverse proxy that sets X-Forwarded-For, SPILLWAY_TRUST_PROXY=1 makes its first address the client
+ * (for the per-client sign-in limit). Without it, the address Next's own server recorded is used.
+ */
+export function trustProxy(): boolean {
+  return env("SPILLWAY_TRUST_PROXY") === "1";
+}
+
+export function authSecret(): string | undefined {
+  return env("AUTH_SECRET");
+}
+
+export const mailConfig = {
+  smtpUrl: (): string | undefined => env("SMTP_URL"),
+  from: (): string => env("MAIL_FROM") ?? "Spillway <no-reply@spillway.test>",
+  /** The local fake SMTP receiver stands in for real mail (dev and tests): the Mailbox page exists only then. */
+  fake: (): boolean => env("SPILLWAY_FAKE_MAIL") === "1",
+};
+
+/** Where `lib/ops/bundle.ts` writes the plain-JavaScript worker-thread entries. */
+export function bundleDir(): string | undefined {
+  return env("SPILLWAY_BUNDLE_DIR");
+}
+
+/** The interactive analytic pool (see lib/analytic-pool). */
+export const analyticPoolConfig = {
+  threads: (): number => positiveInteger("SPILLWAY_ANALYTIC_THREADS", 2),
+  /** Wall-clock budget of one interactive evaluation before it is stopped and answered with 422. */
+  budgetMs: (): number => positiveInteger("SPILLWAY_ANALYTIC_BUDGET_MS", 2_000),
+  /** Evaluations one user may have in flight at once; more are refused with 429. */
+  perUser: (): number => positiveInteger("SPILLWAY_ANALYTIC_PER_USER", 2),
+};

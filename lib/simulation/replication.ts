@@ -1,0 +1,95 @@
+import { Replication, type ReplicationStats } from "./engine";
+import { mser5 } from "./estimators";
+import { batchMean, lawMean, type Scenario } from "./scenario";
+
+/** Events per slice between progress reports and cancellation checks (~10-30 ms of work). */
+export const SLICE_EVENTS = 1 << 18;
+
+/** Raw observations per replication for MSER-5 (in batches of 5: 1000 batch means). */
+const MSER_OBSERVATIONS = 5000;
+
+/** A run stopped through its AbortSignal. */
+export class SimulationCancelledError extends Error {
+  readonly kind = "cancelled" as const;
+  constructor(message = "simulation cancelled") {
+    super(message);
+    this.name = "SimulationCancelledError";
+  }
+}
+
+/** Rough rate of fresh calls, only to space the MSER-5 trace in horizon runs. */
+function approximateCallRate(scenario: Scenario): number {
+  const a = scenario.arrivals;
+  switch (a.process) {
+    case "poisson":
+      return a.rate;
+    case "batch":
+      return a.rate * batchMean(a.batchSize);
+    case "mmpp":
+      return Math.max(...a.rates);
+    case "on-off":
+      return a.onRate;
+    case "renewal":
+      return 1 / lawMean(a.interarrival);
+    case "overflow":
+      return a.primaries.reduce((s, p) => s + p.traffic, 0) / lawMean(scenario.holding);
+    case "finite-source":
+      return a.sources * a.idleRate;
+    case "time-varying":
+      return Math.max(...a.profile.map((s) => s.rate));
+  }
+}
+
+/**
+ * One replication including, for `warmup: "auto"`, an MSER-5 pilot: the pilot runs the same
+ * random streams without warm-up and records the time-average number of busy servers over
+ * consecutive groups of fresh calls; MSER-5 picks the truncation point, and the replication is
+ * run again discarding that many fresh calls (same streams, so the same trajectory).
+ */
+export class ReplicationJob {
+  private current: Replication;
+  private pilot: boolean;
+  private readonly traceEvery: number;
+
+  constructor(
+    private readonly scenario: Scenario,
+    readonly index: number,
+  ) {
+    this.pilot = scenario.run.warmup === "auto";
+    const expectedCalls = scenario.run.callsPerReplication ?? (scenario.run.horizon ?? 0) * approximateCallRate(scenario);
+    this.traceEvery = Math.max(1, Math.floor(expectedCalls / MSER_OBSERVATIONS));
+    this.current = new Replication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {});
+  }
+
+  advance(maxEvents: number): boolean {
+    if (!this.current.advance(maxEvents)) return false;
+    if (!this.pilot) return true;
+    const { traceTime, traceBusy } = this.current;
+    const observations: number[] = [];
+    for (let i = 1; i < traceTime.length; i++) {
+      const dt = traceTime[i] - traceTime[i - 1];
+      observations.push(dt > 0 ? (traceBusy[i] - traceBusy[i - 1]) / dt : 0);
+    }
+    const discard = mser5(observations);
+    this.pilot = false;
+    // Cutting after `discard` observations starts measuring at trace point `discard`.
+    this.current = new Replication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 });
+    return false;
+  }
+
+  progress(): number {
+    const p = this.current.progress();
+    return this.scenario.run.warmup === "auto" ? (this.pilot ? p / 2 : 0.5 + p / 2) : p;
+  }
+
+  stats(): ReplicationStats {
+    return this.current.stats();
+  }
+}
+
+/** The pure part: one replication, run to the end, depending only on (scenario, index). */
+export function runReplication(scenario: Scenario, index: number): ReplicationStats {
+  const job = new ReplicationJob(scenario, index);
+  while (!job.advance(Number.MAX_SAFE_INTEGER));
+  return job.stats();
+}
