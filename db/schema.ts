@@ -15,6 +15,7 @@ import {
   uniqueIndex,
 } from "drizzle-orm/pg-core";
 import { workspaceRoles } from "../lib/schemas/roles";
+import { jobStatuses } from "../lib/schemas/job-status";
 
 const id = () => text("id").primaryKey().$defaultFn(() => crypto.randomUUID());
 const createdAt = () => timestamp("created_at", { withTimezone: true, mode: "date" }).notNull().defaultNow();
@@ -161,7 +162,7 @@ export const capturedMail = pgTable(
 // Background runs, sweeps and sizing searches (issue #7), review decisions (issue #8), API tokens.
 // ---------------------------------------------------------------------------------------------
 
-export const jobStatuses = ["queued", "running", "succeeded", "failed", "cancelled"] as const;
+export { jobStatuses };
 export const jobStatus = pgEnum("job_status", jobStatuses);
 export const sweepKinds = ["sweep", "grid", "dimensioning"] as const;
 export const sweepKind = pgEnum("sweep_kind", sweepKinds);
@@ -212,6 +213,8 @@ export const sweeps = pgTable(
     kind: sweepKind("kind").notNull(),
     scenarioId: text("scenario_id").references(() => scenarios.id, { onDelete: "set null" }),
     scenarioRevisionId: text("scenario_revision_id").references(() => scenarioRevisions.id, { onDelete: "set null" }),
+    /** Optional label given at submission. */
+    name: text("name").notNull().default(""),
     /** The base scenario as run (inline or copied from the revision). */
     scenario: jsonb("scenario").$type<Record<string, unknown>>().notNull(),
     /** Parameter(s), values, target: lib/jobs/contracts.ts `sweepDefinitionSchema`. */
@@ -238,6 +241,8 @@ export const runs = pgTable(
     workspaceId: text("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
     scenarioId: text("scenario_id").references(() => scenarios.id, { onDelete: "set null" }),
     scenarioRevisionId: text("scenario_revision_id").references(() => scenarioRevisions.id, { onDelete: "set null" }),
+    /** Optional label given at submission (lists show the scenario's name when empty). */
+    name: text("name").notNull().default(""),
     /** The exact scenario simulated (a copy, so deleting a scenario never changes a result). */
     scenario: jsonb("scenario").$type<Record<string, unknown>>().notNull(),
     seed: bigint("seed", { mode: "number" }).notNull(),

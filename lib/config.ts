@@ -55,7 +55,14 @@ export const mailConfig = {
   from: (): string => env("MAIL_FROM") ?? "Spillway <no-reply@spillway.test>",
   /** The local fake SMTP receiver stands in for real mail (dev and tests): the Mailbox page exists only then. */
   fake: (): boolean => env("SPILLWAY_FAKE_MAIL") === "1",
+  /** Port of the local fake SMTP receiver. */
+  fakePort: (): number => positiveInteger("SPILLWAY_SMTP_PORT", 2525),
 };
+
+/** `next dev` rather than a production build (dev-only allowances such as eval for fast refresh). */
+export function isDevelopment(): boolean {
+  return env("NODE_ENV") === "development";
+}
 
 /** Where `lib/ops/bundle.ts` writes the plain-JavaScript worker-thread entries. */
 export function bundleDir(): string | undefined {
@@ -66,7 +73,7 @@ export function bundleDir(): string | undefined {
 export const analyticPoolConfig = {
   threads: (): number => positiveInteger("SPILLWAY_ANALYTIC_THREADS", 2),
   /** Wall-clock budget of one interactive evaluation before it is stopped and answered with 422. */
-  budgetMs: (): number => positiveInteger("SPILLWAY_ANALYTIC_BUDGET_MS", 2_000),
+  budgetMs: (): number => positiveInteger("SPILLWAY_ANALYTIC_BUDGET_MS", 3_000),
   /** Evaluations one user may have in flight at once; more are refused with 429. */
   perUser: (): number => positiveInteger("SPILLWAY_ANALYTIC_PER_USER", 2),
 };

@@ -1,23 +1,106 @@
-// The background worker: pg-boss on the same PostgreSQL. Handlers are registered per queue as features land.
-import PgBoss from "pg-boss";
-import { allQueueNames } from "../lib/jobs/contracts";
+// The background worker: pg-boss on the same PostgreSQL; handlers from worker/handlers/index.ts.
+// Run more of them (on this or other machines, against the same DATABASE_URL) for more capacity.
+import { writeSync } from "node:fs";
+import { availableParallelism, hostname } from "node:os";
+import type PgBoss from "pg-boss";
+import { allQueueNames, parsePayload, queues, type QueueName } from "../lib/jobs/contracts";
+import { createReplicationRunner } from "../lib/simulation/node";
+import { createDatabase } from "../db/client";
+import { createBoss } from "../db/queue";
+import { ChunkStopped, type WorkerContext } from "./context";
+import { handlers, type HandlerEntry } from "./handlers";
 
-export async function startWorker(databaseUrl: string, log: (line: string) => void = console.log) {
-  const boss = new PgBoss({ connectionString: databaseUrl, application_name: "spillway-worker" });
-  boss.on("error", (error) => log(`pg-boss error: ${error.message}`));
-  await boss.start();
-  // createQueue is required before send or work, or sends return null and jobs are lost; it is idempotent.
-  for (const name of allQueueNames) await boss.createQueue(name);
-  log(`worker ready; queues: ${allQueueNames.join(", ")}`);
-  return {
+export interface WorkerOptions {
+  /** Replication threads of this process (default SPILLWAY_WORKER_THREADS, else one per core). */
+  threads?: number;
+  log?: (line: string) => void;
+}
+
+export interface RunningWorker {
+  context: WorkerContext;
+  boss: PgBoss;
+  /**
+   * Stops taking jobs, lets running chunks finish for up to `graceMs`, then releases the rest to
+   * the queue (pg-boss retries them on another worker) and closes everything.
+   */
+  stop(graceMs?: number): Promise<void>;
+}
+
+function positiveIntegerFromEnv(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw === "") return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value < 1) throw new Error(`${name} must be a whole number >= 1, not "${raw}"`);
+  return value;
+}
+
+export async function startWorker(databaseUrl: string, options: WorkerOptions = {}): Promise<RunningWorker> {
+  const log = options.log ?? ((line: string) => console.log(line));
+  const threads = options.threads ?? positiveIntegerFromEnv("SPILLWAY_WORKER_THREADS", availableParallelism());
+  const lookahead = positiveIntegerFromEnv("SPILLWAY_CHUNK_LOOKAHEAD", 4);
+  const { db, pool } = createDatabase(databaseUrl, threads + 4);
+  const boss = await createBoss(databaseUrl, "worker");
+  boss.on("error", (error) => log(`pg-boss: ${error.message}`));
+  const runner = createReplicationRunner(threads);
+  const chunkWorkers: string[] = [];
+  const context: WorkerContext = {
+    db,
     boss,
-    stop: () =>
-      new Promise<void>((resolve) => {
+    runner,
+    name: `${hostname()}:${process.pid}`,
+    lookahead,
+    log,
+    running: new Set(),
+    wakeChunkWorkers: () => chunkWorkers.forEach((id) => boss.notifyWorker(id)),
+  };
+
+  const register = async <Q extends QueueName>(queue: Q, entry: HandlerEntry<Q>) => {
+    const copies = entry.concurrency === "threads" ? threads : entry.concurrency;
+    for (let i = 0; i < copies; i++) {
+      let id: string | undefined;
+      id = await boss.work<unknown>(queue, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: entry.pollingIntervalSeconds }, async ([job]) => {
+        try {
+          let payload;
+          try {
+            payload = parsePayload(queue, job.data);
+          } catch (error) {
+            // A malformed job never becomes valid by retrying it.
+            log(`${queue}: job ${job.id} has a malformed payload, dropped (${(error as Error).message})`);
+            return;
+          }
+          job.expireInSeconds = Number(job.expireInSeconds); // pg returns EXTRACT(epoch ...) as a numeric string
+          await entry.handle(context, payload, job);
+        } catch (error) {
+          log(`${queue}: job ${job.id} failed (attempt ${job.retryCount + 1} of ${job.retryLimit + 1}): ${(error as Error).message}`);
+          throw error;
+        } finally {
+          // Look for the next job at once instead of waiting out the polling interval.
+          if (id) boss.notifyWorker(id);
+        }
+      });
+      if (queue === queues.runChunk) chunkWorkers.push(id);
+    }
+  };
+  for (const queue of allQueueNames) await register(queue, handlers[queue] as HandlerEntry<typeof queue>);
+  log(`worker ${context.name} ready: ${threads} replication thread${threads === 1 ? "" : "s"}; queues: ${allQueueNames.join(", ")}`);
+
+  let stopping: Promise<void> | undefined;
+  const stop = (graceMs = positiveIntegerFromEnv("SPILLWAY_WORKER_GRACE_SECONDS", 20) * 1000) =>
+    (stopping ??= (async () => {
+      for (const queue of allQueueNames) await boss.offWork(queue);
+      const deadline = Date.now() + graceMs;
+      while (context.running.size > 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+      if (context.running.size > 0) log(`releasing ${context.running.size} running chunk(s) to other workers`);
+      for (const controller of context.running) controller.abort(new ChunkStopped("released", "the worker is stopping; the chunk goes back to the queue"));
+      await new Promise<void>((resolve) => {
         // stop() can resolve before jobs finish; the 'stopped' event is the reliable signal.
         boss.once("stopped", () => resolve());
-        boss.stop({ graceful: true, wait: true, timeout: 20_000 }).catch(() => resolve());
-      }),
-  };
+        boss.stop({ graceful: true, wait: true, timeout: 10_000 }).catch(() => resolve());
+      });
+      await runner.close();
+      await pool.end();
+    })());
+  return { context, boss, stop };
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
@@ -26,7 +109,8 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     console.error("worker: DATABASE_URL is not set");
     process.exit(2);
   }
-  startWorker(url).then(
+  // Synchronous writes: pipe output is otherwise lost when the process exits right after a line.
+  startWorker(url, { log: (line) => writeSync(1, `${line}\n`) }).then(
     (worker) => {
       const stop = () => worker.stop().then(() => process.exit(0));
       process.once("SIGTERM", stop);

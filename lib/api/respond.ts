@@ -76,7 +76,10 @@ export function errorResponse(error: unknown): Response {
   if (failure) {
     if (domain.kind === "input") {
       const field = typeof domain.field === "string" ? domain.field : "input";
-      return jsonError(400, failure.code, (error as Error).message, { [field]: (error as Error).message });
+      // Errors that know every failing field (ScenarioError) send them all, keyed by form path.
+      const all = (error as { fields?: unknown }).fields;
+      const fields = all && typeof all === "object" && Object.keys(all).length ? (all as Record<string, string>) : { [field]: (error as Error).message };
+      return jsonError(400, failure.code, (error as Error).message, fields);
     }
     const message = domain.kind === "convergence" ? `The method did not converge for these inputs: ${(error as Error).message}` : (error as Error).message;
     return jsonError(failure.status, failure.code, message);

@@ -5,14 +5,14 @@ import Nodemailer from "next-auth/providers/nodemailer";
 import { DrizzleAdapter } from "@auth/drizzle-adapter";
 import { getDatabase } from "@/db/client";
 import { accounts, sessions, users, verificationTokens } from "@/db/schema";
-import { beginSignInAttempt, createSession, endSession, findUserByEmail, isSessionActive, markSignInSucceeded } from "@/db/queries/users";
-import { decoyPasswordHash, verifyPassword } from "@/lib/secrets/password";
+import { createSession, endSession, findUserByEmail, isSessionActive } from "@/db/queries/users";
 import { signInSchema } from "@/lib/schemas/account";
 import { signInLimits } from "@/lib/schemas/sign-in-limits";
 import { sendMail } from "@/lib/mail/transport";
 import { signInLinkMail } from "@/lib/mail/messages";
 import { mailConfig, servedOverHttps, trustProxy } from "@/lib/config";
 import { clientAddress } from "./client-address";
+import { verifyCredentials } from "./credentials";
 
 export const authBasePath = "/api/v1/auth";
 
@@ -53,17 +53,10 @@ const buildConfig = (): NextAuthConfig => ({
       async authorize(raw, request) {
         const parsed = signInSchema.safeParse(raw);
         if (!parsed.success) throw new InvalidCredentials();
-        const { email, password } = parsed.data;
-        const db = getDatabase();
         const client = clientAddress(request.headers.get("x-forwarded-for"), trustProxy());
-        const attempt = await beginSignInAttempt(db, { email, client });
-        if (!attempt.allowed) throw new TooManyAttempts();
-        const user = await findUserByEmail(db, email);
-        // Unknown addresses are checked against a decoy hash, so they answer as slowly as known ones.
-        const ok = (await verifyPassword(password, user?.passwordHash ?? (await decoyPasswordHash()))) && !!user?.passwordHash;
-        if (!ok || !user) throw new InvalidCredentials();
-        await markSignInSucceeded(db, attempt.attemptId);
-        return { id: user.id, email: user.email, name: user.name };
+        const outcome = await verifyCredentials(getDatabase(), { ...parsed.data, client });
+        if (outcome.ok) return outcome.user;
+        throw outcome.reason === "too-many-attempts" ? new TooManyAttempts() : new InvalidCredentials();
       },
     }),
     Nodemailer({

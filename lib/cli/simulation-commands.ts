@@ -1,6 +1,7 @@
 import { readFileSync } from "node:fs";
 import { CliUsageError, formatNumber, type CliCommand } from "./command";
 import { parseScenario, runScenario, ScenarioError, type SimulationResult } from "../simulation/node";
+import { planRunLength, type RunLengthPlan } from "../simulation/run-length";
 
 /** Reads and validates a scenario file; every failure is an input error with one line. */
 export function readScenarioFile(file: string) {
@@ -61,6 +62,7 @@ function parseThreads(argv: string[]): { file: string; threads: number } {
 
 const MEASURES: Array<[keyof SimulationResult, string]> = [
   ["callCongestion", "call congestion"],
+  ["callCongestionDirect", "  direct count"],
   ["timeCongestion", "time congestion"],
   ["carriedTraffic", "carried traffic (E)"],
   ["firstAttemptBlocking", "first-attempt blocking"],
@@ -76,6 +78,7 @@ const MEASURES: Array<[keyof SimulationResult, string]> = [
 
 const REFERENCE_FIELD: Partial<Record<keyof SimulationResult, string>> = {
   callCongestion: "callCongestion",
+  callCongestionDirect: "callCongestion",
   timeCongestion: "timeCongestion",
   carriedTraffic: "carriedTraffic",
   attemptCongestion: "attemptCongestion",
@@ -96,13 +99,13 @@ export function simulationTable(result: SimulationResult): string {
   const header = ["measure", "estimate", pct, ...refs.map((r, i) => `[${i + 1}]${r.exact ? "*" : ""}`)];
   const rows: string[][] = [header];
   for (const [key, label] of MEASURES) {
-    const m = result[key] as { estimate: number; ciLow: number; ciHigh: number } | undefined;
+    const m = result[key] as { estimate: number; ciLow: number; ciHigh: number; upperBoundOnly?: boolean } | undefined;
     if (!m) continue;
     const field = REFERENCE_FIELD[key];
     rows.push([
       label,
       fmt(m.estimate),
-      `${fmt(m.ciLow)} .. ${fmt(m.ciHigh)}`,
+      m.upperBoundOnly ? `< ${fmt(m.ciHigh)} (one-sided)` : `${fmt(m.ciLow)} .. ${fmt(m.ciHigh)}`,
       ...refs.map((r) => (field ? fmt((r as Record<string, unknown>)[field] as number | undefined) : "")),
     ]);
   }
@@ -114,6 +117,7 @@ export function simulationTable(result: SimulationResult): string {
     `Warm-up per replication: ${fmt(result.warmupCalls.mean)} calls (${result.warmupCalls.min} .. ${result.warmupCalls.max}), ${fmt(result.warmupTime.mean)} time units`,
     "",
     ...lines,
+    ...(result.callCongestion.method ? [`Call congestion by ${result.callCongestion.method}.`] : []),
     "",
     ...(result.warnings.length ? ["Warnings:", ...result.warnings.map((w) => `  ! ${w.measure ? `${w.measure}: ` : ""}${w.message}`), ""] : []),
     "References (* = every assumption met, the interval should cover it):",
@@ -121,7 +125,50 @@ export function simulationTable(result: SimulationResult): string {
   ].join("\n");
 }
 
+const PLAN_USAGE = "usage: plan <scenario.json> [--precision R] [--threads N] [--json]";
+
+function parsePlanArgs(argv: string[]): { file: string; precision?: number; threads: number } {
+  let precision: number | undefined;
+  const rest: string[] = [];
+  for (let i = 0; i < argv.length; i++) {
+    if (argv[i] === "--precision") {
+      const value = Number(argv[++i]);
+      if (!(value > 0 && value < 1)) throw new CliUsageError("--precision: must be a number between 0 and 1 (relative half-width, e.g. 0.05)");
+      precision = value;
+    } else rest.push(argv[i]);
+  }
+  try {
+    return { ...parseThreads(rest), precision };
+  } catch (error) {
+    if (error instanceof CliUsageError) throw new CliUsageError(error.message.replace(/usage: .*$/, PLAN_USAGE));
+    throw error;
+  }
+}
+
+/** "about N calls, about T s" with the method behind it. */
+export function runLengthTable(plan: RunLengthPlan, precision: number, threads: number): string {
+  const seconds = plan.seconds < 1 ? plan.seconds.toPrecision(2) : Math.ceil(plan.seconds).toString();
+  return [
+    `For call congestion within +-${fmt(100 * precision)} % (relative half-width):`,
+    `  ${plan.lowerBound ? "at least" : "about"} ${plan.calls} calls (${plan.callsPerReplication} per replication x ${plan.replications}), about ${seconds} s on ${threads} thread${threads > 1 ? "s" : ""}`,
+    `  call congestion about ${fmt(plan.callCongestion)}; variance per call ${fmt(plan.varianceRatio)} x independent sampling`,
+    `  method: ${plan.method}`,
+  ].join("\n");
+}
+
 export const simulationCommands: CliCommand[] = [
+  {
+    name: "plan",
+    summary: "plan <scenario.json> [--precision R] [--threads N]: about how many calls and seconds the precision needs",
+    async run(argv) {
+      const { file, precision, threads } = parsePlanArgs(argv);
+      const scenario = readScenarioFile(file);
+      const relativeHalfWidth = precision ?? scenario.run.precision?.relativeHalfWidth;
+      if (relativeHalfWidth === undefined) throw new CliUsageError(`--precision: required when the scenario has no run.precision; ${PLAN_USAGE}`);
+      const plan = planRunLength(scenario, { relativeHalfWidth, threads });
+      return { json: { relativeHalfWidth, ...plan } as unknown as Record<string, unknown>, table: runLengthTable(plan, relativeHalfWidth, threads) };
+    },
+  },
   {
     name: "simulate",
     summary: "simulate <scenario.json> [--threads N]: replications with confidence intervals beside analytic references",

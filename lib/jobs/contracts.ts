@@ -8,6 +8,8 @@ export const queues = {
   runStart: "run-start",
   /** One chunk of replications of a run (idempotent on (run, chunk)). */
   runChunk: "run-chunk",
+  /** A chunk that used up its retries (pg-boss dead letter of run-chunk): fail its run with the reason. */
+  runChunkFailed: "run-chunk-failed",
   /** Fold what is there into the stored result: after the last chunk, or a partial one after a cancel. */
   runFinalise: "run-finalise",
   /** Prepare a sweep, grid or dimensioning search: create its point runs (or the first probes). */
@@ -25,6 +27,7 @@ const id = z.string().min(1).max(100);
 export const payloadSchemas = {
   [queues.runStart]: z.strictObject({ runId: id }),
   [queues.runChunk]: z.strictObject({ runId: id, chunk: z.number().int().min(0) }),
+  [queues.runChunkFailed]: z.strictObject({ runId: id, chunk: z.number().int().min(0) }),
   [queues.runFinalise]: z.strictObject({ runId: id }),
   [queues.sweepStart]: z.strictObject({ sweepId: id }),
   [queues.sweepAdvance]: z.strictObject({ sweepId: id, runId: id }),

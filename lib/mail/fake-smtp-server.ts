@@ -4,6 +4,7 @@ import { simpleParser } from "mailparser";
 import { createDatabase } from "../../db/client";
 import { capturedMail } from "../../db/schema";
 import { mailHeaders } from "./transport";
+import { databaseUrl, mailConfig } from "../config";
 
 const header = (parsed: { headers: Map<string, unknown> }, name: string): string | null => {
   const value = parsed.headers.get(name);
@@ -45,8 +46,8 @@ export function startFakeSmtpServer(options: { port: number; databaseUrl: string
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const port = Number(process.env.SPILLWAY_SMTP_PORT ?? 2525);
-  startFakeSmtpServer({ port, databaseUrl: process.env.DATABASE_URL ?? "" }).then(
+  const port = mailConfig.fakePort();
+  startFakeSmtpServer({ port, databaseUrl: databaseUrl() }).then(
     (handle) => {
       console.log(`fake SMTP receiver listening on 127.0.0.1:${port}`);
       const stop = () => handle.close().then(() => process.exit(0));

@@ -3,7 +3,7 @@ import type { OutgoingMail } from "./transport";
 const escapeHtml = (value: string) =>
   value.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
-function layout(paragraphs: string[], link: { href: string; label: string }): string {
+export function layout(paragraphs: string[], link: { href: string; label: string }): string {
   return [
     '<div style="font-family:system-ui,sans-serif;max-width:32rem;color:#0f2133">',
     '<p style="font-weight:600;color:#1f4c70">Spillway</p>',

@@ -13,7 +13,6 @@ export class Utf8Decoder {
   private lo = 0x80;
   private hi = 0xbf;
   private line = 1;
-  private offset = 0;
   private first = true;
   bytes = 0;
 
@@ -30,25 +29,24 @@ export class Utf8Decoder {
       if (chunk[0] === 0xef && chunk[1] === 0xbb && chunk[2] === 0xbf) start = 3;
     }
     for (let i = start; i < chunk.length; i++) this.check(chunk[i]);
-    this.offset += chunk.length;
     return this.decoder.decode(start ? chunk.subarray(start) : chunk, { stream: true });
   }
 
   end(): string {
-    if (this.need > 0) throw encodingError(this.line, this.offset, "ends inside a multi-byte character");
+    if (this.need > 0) throw encodingError(this.line, "ends inside a multi-byte character");
     return this.decoder.decode();
   }
 
   private check(b: number): void {
     if (this.need > 0) {
-      if (b < this.lo || b > this.hi) throw encodingError(this.line, this.offset, `has the byte 0x${hex(b)} where a UTF-8 continuation byte belongs`);
+      if (b < this.lo || b > this.hi) throw encodingError(this.line, `has the byte 0x${hex(b)} where a UTF-8 continuation byte belongs`);
       this.need--;
       this.lo = 0x80;
       this.hi = 0xbf;
       return;
     }
     if (b === 0x0a) this.line++;
-    else if (b === 0x00) throw encodingError(this.line, this.offset, "contains a NUL byte: the file looks like UTF-16 or binary data");
+    else if (b === 0x00) throw encodingError(this.line, "contains a NUL byte: the file looks like UTF-16 or binary data");
     if (b < 0x80) return;
     if (b >= 0xc2 && b <= 0xdf) this.need = 1;
     else if (b === 0xe0) [this.need, this.lo] = [2, 0xa0];
@@ -57,7 +55,7 @@ export class Utf8Decoder {
     else if (b === 0xf0) [this.need, this.lo] = [3, 0x90];
     else if (b >= 0xf1 && b <= 0xf3) this.need = 3;
     else if (b === 0xf4) [this.need, this.hi] = [3, 0x8f];
-    else throw encodingError(this.line, this.offset, `has the byte 0x${hex(b)}, which never occurs in UTF-8 (Latin-1 or Windows-1252 text?)`);
+    else throw encodingError(this.line, `has the byte 0x${hex(b)}, which never occurs in UTF-8 (Latin-1 or Windows-1252 text?)`);
   }
 }
 
@@ -69,7 +67,7 @@ function refuseOtherByteOrderMarks(c: Uint8Array): void {
   if (name) throw new MeasurementInputError("wrong-encoding", `line 1: the file is ${name} (it starts with that byte-order mark); save it as UTF-8`, 1);
 }
 
-function encodingError(line: number, _offset: number, what: string): MeasurementInputError {
+function encodingError(line: number, what: string): MeasurementInputError {
   return new MeasurementInputError("wrong-encoding", `line ${line}: not UTF-8 text: the line ${what}; save the file as UTF-8`, line);
 }
 

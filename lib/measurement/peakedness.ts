@@ -63,16 +63,21 @@ function expMoments(a: number, d: number): [number, number] {
 export function exponentialKernelIntegral(shape: HoldingShape, a: number): number {
   const { x, s } = shape;
   const n = x.length;
+  // K(v) = e^{−a h} K(v + h) + ∫₀^h e^{−a w} S(v + w) dw, exact for S linear on [v, v + h]
+  const step = (kNext: number, sv: number, sEnd: number, h: number) => {
+    const [e0, e1] = expMoments(a, h);
+    return Math.exp(-a * h) * kNext + sv * e0 + ((sEnd - sv) * e1) / h;
+  };
   let k = 0; // K at the last node (S = 0 beyond, to within the tail cut)
   let total = 0;
   for (let i = n - 2; i >= 0; i--) {
     const d = x[i + 1] - x[i];
+    if (!(d > 0)) continue;
     const kNext = k;
-    if (d > 0) {
-      const [e0, e1] = expMoments(a, d);
-      k = Math.exp(-a * d) * kNext + s[i] * e0 + ((s[i + 1] - s[i]) * e1) / d;
-    }
-    total += ((s[i] * k + s[i + 1] * kNext) / 2) * d;
+    const sMid = (s[i] + s[i + 1]) / 2;
+    const kMid = step(kNext, sMid, s[i + 1], d / 2);
+    k = step(kMid, s[i], sMid, d / 2);
+    total += (d / 6) * (s[i] * k + 4 * sMid * kMid + s[i + 1] * kNext); // Simpson on the cell
   }
   return 2 * total;
 }
@@ -116,18 +121,4 @@ export function onOffInterarrivalScv(stream: OnOff): number {
 
 export function onOffMeanRate(stream: OnOff): number {
   return (stream.onRate * stream.meanOn) / (stream.meanOn + stream.meanOff);
-}
-
-/**
- * Peakedness of a renewal stream with gamma interarrival times (mean τ, coefficient of
- * variation cv) on an infinite group with exponential holding of mean m:
- * Z = 1 / (1 − φ(1/m)) − m/τ, φ the interarrival Laplace–Stieltjes transform (Takács 1962,
- * "Introduction to the Theory of Queues", GI/M/∞; Eckberg 1983 eq. for renewal input);
- * φ(s) = (1 + s τ cv²)^(−1/cv²).
- */
-export function gammaRenewalPeakedness(meanInterarrival: number, cv: number, meanHolding: number): number {
-  const c2 = cv * cv;
-  const s = 1 / meanHolding;
-  const logPhi = -Math.log1p(s * meanInterarrival * c2) / c2;
-  return -1 / Math.expm1(logPhi) - meanHolding / meanInterarrival;
 }

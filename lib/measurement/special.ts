@@ -8,19 +8,19 @@ export const digamma: (x: number) => number = digammaImpl;
 export const lnGamma: (x: number) => number = gammalnImpl;
 
 /**
- * Trigamma ψ'(x) for x > 0: the recurrence ψ'(x) = ψ'(x+1) + 1/x² up to x >= 6, then the
- * asymptotic series 1/x + 1/(2x²) + Σ B_2k / x^(2k+1) (Abramowitz & Stegun 6.4.12), whose
- * first omitted term is below 1e-13 there.
+ * Trigamma ψ'(x) for x > 0: the recurrence ψ'(x) = ψ'(x+1) + 1/x² up to x >= 10, then the
+ * asymptotic series 1/x + 1/(2x²) + Σ_{k=1..6} B_2k / x^(2k+1) (Abramowitz & Stegun 6.4.12),
+ * whose first omitted term, B_14/x^15 = (7/6)/10^15, is below 2e-15 there.
  */
 export function trigamma(x: number): number {
   let acc = 0;
-  while (x < 6) {
+  while (x < 10) {
     acc += 1 / (x * x);
     x += 1;
   }
   const r = 1 / x;
   const r2 = r * r;
-  return acc + r + r2 / 2 + r * r2 * (1 / 6 - r2 * (1 / 30 - r2 * (1 / 42 - r2 * (1 / 30 - (r2 * 5) / 66))));
+  return acc + r + r2 / 2 + r * r2 * (1 / 6 - r2 * (1 / 30 - r2 * (1 / 42 - r2 * (1 / 30 - r2 * (5 / 66 - (r2 * 691) / 2730)))));
 }
 
 /** Regularized lower incomplete gamma P(a, x). */

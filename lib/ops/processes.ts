@@ -10,14 +10,35 @@ export interface ManagedProcess {
   child: ChildProcess;
 }
 
+export interface StartOptions {
+  quiet?: boolean;
+  /**
+   * Start the process again when it dies (worker processes): after 1 s, doubling up to 30 s while
+   * it keeps dying within a minute of starting. Without it an unexpected exit is reported through
+   * `onUnexpectedExit` (web server, mail receiver: the stack cannot serve without them).
+   */
+  restart?: boolean;
+}
+
+/** Delay before restart number `failures` (1-based) of a process that keeps dying (common practice, no source). */
+export function restartDelayMs(failures: number): number {
+  return Math.min(30_000, 1000 * 2 ** Math.max(0, failures - 1));
+}
+
+/** A process that ran this long before dying counts as healthy: its next restart waits 1 s again. */
+const HEALTHY_RUN_MS = 60_000;
+
 export class Supervisor {
   private processes: ManagedProcess[] = [];
+  private timers = new Set<NodeJS.Timeout>();
   private stopping = false;
   onUnexpectedExit: (name: string, code: number | null) => void = () => {};
+  onRestart: (name: string, code: number | null, delayMs: number) => void = () => {};
 
-  start(name: string, args: string[], env: NodeJS.ProcessEnv, options: { quiet?: boolean } = {}): ManagedProcess {
+  start(name: string, args: string[], env: NodeJS.ProcessEnv, options: StartOptions = {}, failures = 0): ManagedProcess {
     // Start node directly (not via npx), so the PID we keep is the process we stop.
     const child = spawn(process.execPath, args, { cwd: projectRoot, env, stdio: ["ignore", "pipe", "pipe"] });
+    const startedAt = Date.now();
     const prefix = `[${name}] `;
     const forward = (stream: NodeJS.WriteStream) => (chunk: Buffer) => {
       if (options.quiet) return;
@@ -25,16 +46,33 @@ export class Supervisor {
     };
     child.stdout?.on("data", forward(process.stdout));
     child.stderr?.on("data", forward(process.stderr));
-    child.on("exit", (code) => {
-      if (!this.stopping) this.onUnexpectedExit(name, code);
-    });
     const managed = { name, child };
+    child.on("exit", (code, signal) => {
+      if (this.stopping) return;
+      if (!options.restart) return this.onUnexpectedExit(name, code ?? (signal ? 128 : null));
+      this.processes = this.processes.filter((p) => p !== managed);
+      const next = Date.now() - startedAt >= HEALTHY_RUN_MS ? 1 : failures + 1;
+      const delay = restartDelayMs(next);
+      this.onRestart(name, code ?? (signal ? 128 : null), delay);
+      const timer = setTimeout(() => {
+        this.timers.delete(timer);
+        if (!this.stopping) this.start(name, args, env, options, next);
+      }, delay);
+      this.timers.add(timer);
+    });
     this.processes.push(managed);
     return managed;
   }
 
-  async stopAll(timeoutMs = 10_000): Promise<void> {
+  /** The running processes (a restarted worker appears under the same name with a new child). */
+  get running(): readonly ManagedProcess[] {
+    return this.processes;
+  }
+
+  async stopAll(timeoutMs = 30_000): Promise<void> {
     this.stopping = true;
+    for (const timer of this.timers) clearTimeout(timer);
+    this.timers.clear();
     await Promise.all(
       this.processes.reverse().map(
         ({ child }) =>
@@ -53,10 +91,19 @@ export class Supervisor {
   }
 }
 
+/** Worker processes `npm start` runs: SPILLWAY_WORKERS, default 1 (each runs one replication thread per core). */
+export function workerCount(): number {
+  const raw = process.env.SPILLWAY_WORKERS;
+  if (raw === undefined || raw === "") return 1;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 0 || n > 64) throw new Error(`SPILLWAY_WORKERS must be a whole number from 0 to 64, not "${raw}"`);
+  return n;
+}
+
 export const nodeWithTsx = (script: string) => ["--import", "tsx", script];
 export const nextBin = path.join(projectRoot, "node_modules/next/dist/bin/next");
 
-const buildInputs = ["app", "components", "lib", "db", "public", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "package-lock.json", "tsconfig.json"];
+const buildInputs = ["app", "components", "lib", "db", "public", "proxy.ts", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "package-lock.json", "tsconfig.json"];
 
 function fingerprint(): string {
   const hash = createHash("sha256");

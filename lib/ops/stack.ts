@@ -3,7 +3,10 @@ import { connectionUrl, dropDatabase, embeddedConfig, ensureDatabase, portIsFree
 import { runMigrations } from "../../db/migrate";
 import { createDatabase } from "../../db/client";
 import { seedDemo } from "../../db/seed";
-import { buildIfNeeded, nextBin, nodeWithTsx, Supervisor, waitForHttp } from "./processes";
+import { buildIfNeeded, nextBin, nodeWithTsx, Supervisor, waitForHttp, workerCount } from "./processes";
+import { bundleWorkers, defaultBundleDir } from "./bundle";
+import { projectRoot } from "./environment";
+import path from "node:path";
 
 export interface StackOptions {
   profile: "dev" | "test";
@@ -66,6 +69,9 @@ export async function prepareDatabase(options: StackOptions): Promise<{ database
   return { databaseUrl, stopDatabase };
 }
 
+/** Preloaded into the web server: client address, JSON shape of every /api/v1 error (see the file). */
+const webHooks = path.join(projectRoot, "lib/ops/web-hooks.cjs");
+
 export function stackEnvironment(options: StackOptions, databaseUrl: string): NodeJS.ProcessEnv {
   // Next rewrites loopback hosts to localhost, so links and cookies must say localhost too.
   const appUrl = `http://localhost:${options.webPort}`;
@@ -81,6 +87,7 @@ export function stackEnvironment(options: StackOptions, databaseUrl: string): No
     SPILLWAY_FAKE_MAIL: fakeMail ? "1" : "0",
     SPILLWAY_SMTP_PORT: String(options.smtpPort),
     SPILLWAY_DIST_DIR: options.profile === "test" ? ".next-test" : ".next",
+    SPILLWAY_BUNDLE_DIR: defaultBundleDir,
     NEXT_TELEMETRY_DISABLED: "1",
   };
 }
@@ -91,8 +98,10 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
       throw new StackError(`port ${port} on 127.0.0.1 (for the ${what}) is already in use. Stop whatever holds it and try again.`, 3);
     }
   }
+  const workers = workerCount(); // a bad SPILLWAY_WORKERS stops here, before anything starts
   const { databaseUrl, stopDatabase } = await prepareDatabase(options);
   const env = stackEnvironment(options, databaseUrl);
+  await bundleWorkers({ log: options.log });
   if (!buildIfNeeded(env, options.log)) {
     stopDatabase();
     throw new StackError("next build failed; see the messages above.");
@@ -100,8 +109,9 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
   const supervisor = new Supervisor();
   const quiet = options.profile === "test";
   if (env.SPILLWAY_FAKE_MAIL === "1") supervisor.start("mail", nodeWithTsx("lib/mail/fake-smtp-server.ts"), env, { quiet });
-  supervisor.start("web", [nextBin, "start", "--hostname", "127.0.0.1", "--port", String(options.webPort)], env, { quiet });
-  supervisor.start("worker", nodeWithTsx("worker/main.ts"), env, { quiet });
+  supervisor.start("web", ["--require", webHooks, nextBin, "start", "--hostname", "127.0.0.1", "--port", String(options.webPort)], env, { quiet });
+  // Workers restart with backoff when they die; the web server keeps serving meanwhile.
+  for (let i = 1; i <= workers; i++) supervisor.start(`worker-${i}`, nodeWithTsx("worker/main.ts"), env, { quiet, restart: true });
   const stop = async () => {
     await supervisor.stopAll();
     stopDatabase();

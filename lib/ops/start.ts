@@ -1,6 +1,7 @@
 // `npm start`: the whole product on this machine, under one supervisor. Ctrl-C stops everything.
 import { demoAccounts } from "../../db/demo-data";
 import { ensureAuthSecret, loadEnvFile } from "./environment";
+import { workerCount } from "./processes";
 import { StackError, startStack } from "./stack";
 
 const log = (line: string) => console.log(`[spillway] ${line}`);
@@ -25,6 +26,8 @@ async function main() {
     process.exit(code);
   };
   stack.supervisor.onUnexpectedExit = (name, code) => void shutdown(`${name} exited unexpectedly (status ${code})`, 1);
+  // A worker that dies is started again; its unfinished chunks go to the other workers meanwhile.
+  stack.supervisor.onRestart = (name, code, delayMs) => log(`${name} exited (status ${code}); starting it again in ${delayMs / 1000} s. The web server keeps serving.`);
   process.on("SIGINT", () => void shutdown("Interrupted", 0));
   process.on("SIGTERM", () => void shutdown("Terminated", 0));
 
@@ -32,7 +35,7 @@ async function main() {
   console.log(
     [
       "",
-      `Spillway is running at ${stack.appUrl}`,
+      `Spillway is running at ${stack.appUrl} with ${workerCount()} worker process${workerCount() === 1 ? "" : "es"} (SPILLWAY_WORKERS; \`npm run worker\` adds one, on any machine that reaches the database).`,
       stack.env.SPILLWAY_FAKE_MAIL === "1" ? `Outgoing mail is captured locally; admins read it under Workspace → Mailbox.` : `Mail goes out through SMTP_URL.`,
       "",
       "Demo accounts (e-mail, password, roles):",

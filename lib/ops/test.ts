@@ -5,6 +5,7 @@ import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import { projectRoot } from "./environment";
 import { StackError, prepareDatabase, stackEnvironment, startStack, type StackOptions } from "./stack";
+import { bundleWorkers } from "./bundle";
 
 const log = (line: string) => console.log(`[test] ${line}`);
 const outputDir = path.join(projectRoot, "tests/.output");
@@ -82,6 +83,7 @@ async function main(): Promise<number> {
 
   const { databaseUrl, stopDatabase } = await prepareDatabase(options);
   const env = stackEnvironment(options, databaseUrl);
+  await bundleWorkers({ log });
   try {
     log("Running unit and integration tests (vitest) ...");
     counts.push(runVitest({ ...env, NODE_ENV: "test" }));

@@ -1,8 +1,13 @@
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { Random, SUBSTREAM } from "./random";
-import type { Scenario } from "./scenario";
+import { freshCallRate, lawMean, type Scenario } from "./scenario";
 
-/** Counters of one replication, measured after the warm-up. */
+/**
+ * Counters of one replication, measured after the warm-up. This is the contract every event loop
+ * (this reference loop and any specialised one) must fill identically: each field's meaning is
+ * stated here, and the estimators of result.ts read only these fields (through the JSON-safe
+ * ReplicationRecord of aggregate.ts), so a loop that fills them the same way gives the same result.
+ */
 export interface ReplicationStats {
   index: number;
   /** Fresh calls offered to the group under study (for `overflow`: the overflow calls). */
@@ -35,6 +40,72 @@ export interface ReplicationStats {
   /** Fresh calls discarded as warm-up (chosen by MSER-5 when warm-up is "auto"). */
   warmupCalls: number;
   warmupTime: number;
+  /**
+   * Integral over the measured period of the fresh-call arrival intensity at the group under study,
+   * i.e. the compensator of the fresh-call count (Bremaud, Point Processes and Queues, 1981): for
+   * `poisson` rate x time; `mmpp`/`on-off` the current phase's rate; `time-varying` the profile's
+   * rate; `finite-source` idle sources x idleRate; `overflow` the sum of the rates of the primaries
+   * that are full (servers 0: always). Where the process has no such intensity it is the long-run
+   * mean call rate x time (`renewal`: 1 / mean interarrival; `batch`: rate x mean batch size).
+   * Its expectation equals that of `calls` (up to one call at the period's ends).
+   */
+  intensityIntegral: number;
+  /**
+   * The same integral restricted to the time when a first attempt would be refused (no free
+   * server and no free waiting position): its expectation equals that of `blockedFirst` where the
+   * process has an intensity and calls arrive one at a time (not `renewal`, not `batch`).
+   */
+  refusingIntensityIntegral: number;
+  /** Time with no free server and no free waiting position (= allBusyTime without waiting positions). */
+  refusingTime: number;
+  /**
+   * Time with the group near refusal: busy servers + waiting calls >= servers + waitingPositions -
+   * `nearRefusalMargin(scenario)` (the refusing states included).
+   */
+  nearRefusalTime: number;
+  /** Fresh calls whose first attempt arrived with the group near refusal (level judged just before the attempt). */
+  nearRefusalCalls: number;
+  /** Intensity integral (as `intensityIntegral`) over the time near refusal: compensator of `nearRefusalCalls`. */
+  nearRefusalIntensityIntegral: number;
+  /** Holding draws (and their sum) of calls that seized a server when the level just before was near refusal. */
+  nearRefusalHoldingDraws: number;
+  nearRefusalHoldingSum: number;
+  /**
+   * `renewal` only: sum over interarrival times drawn during the measured period while the group
+   * was near refusal of (draw / mean - 1); expectation 0 by Wald's identity (the weight is known
+   * before the draw).
+   */
+  nearRefusalGapDeviation: number;
+  /**
+   * `mmpp`/`on-off` only: sum over phase sojourns drawn during the measured period of
+   * (sojourn x exit rate - 1) x (phase rate / mean rate - 1), and the same over sojourns drawn
+   * while near refusal; expectation 0 by Wald's identity. A long stay in a busy phase is what
+   * fills the group, so these track the burst lengths behind the estimate's variance.
+   */
+  phaseSojournDeviation: number;
+  nearRefusalPhaseSojournDeviation: number;
+  /** Holding times drawn during the measured period for the group under study (one per call that seized a server). */
+  holdingDraws: number;
+  /** Sum of those draws: holdingSum - holdingDraws x (the law's mean) has expectation 0 (Wald's identity). */
+  holdingSum: number;
+  /** `overflow` only (else empty): arrivals offered to each primary group during the measured period. */
+  primaryArrivals: number[];
+  /** `overflow` only (else empty): of those, the ones that found the primary full and overflowed to the group under study. */
+  primaryOverflows: number[];
+  /**
+   * Snapshot at the middle of the measured period (the fresh arrival at which half the calls, or
+   * for horizon runs half the horizon, are reached; all 0 if the period ended before): elapsed
+   * measured time and the busy, retrying and waiting integrals so far. Comparing the halves shows
+   * a state still drifting after the warm-up.
+   */
+  halfTime: number;
+  halfBusyIntegral: number;
+  halfOrbitIntegral: number;
+  halfQueueIntegral: number;
+  /** 1 when the automatic warm-up (MSER-5) chose its last admissible truncation point for some watched state, else 0 (set by ReplicationJob). */
+  warmupAtBound: number;
+  /** Which loop produced these counters (dispatch.ts); absent means this reference loop. */
+  path?: "reference" | "specialised" | "markov";
 }
 
 /**
@@ -50,6 +121,18 @@ const K_DEPARTURE = 0;
 const K_PRIMARY_DEPARTURE = 1;
 const K_RETRY = 2;
 const K_ABANDON = 3;
+
+/**
+ * Width of the "near refusal" window in levels below the capacity: about one standard deviation
+ * of the busy count of the offered traffic on an unlimited group (sqrt(A), Poisson). The controls
+ * of result.ts weight arrivals and holding times drawn in this window, where a fluctuation moves
+ * the refusing time most (the approximating-martingale idea, Henderson & Glynn, Math. OR 27, 2002).
+ */
+export function nearRefusalMargin(scenario: Scenario): number {
+  const h = lawMean(scenario.holding);
+  const traffic = freshCallRate(scenario.arrivals, h) * h;
+  return Math.max(1, Math.ceil(Math.sqrt(Number.isFinite(traffic) ? traffic : 1)));
+}
 
 const P_POISSON = 0;
 const P_MMPP = 1;
@@ -142,10 +225,18 @@ export class Replication {
   private readonly primaryServers: Int32Array = new Int32Array(0);
   private readonly primaryBusy: Int32Array = new Int32Array(0);
   private readonly primaryChoice: Float64Array = new Float64Array(0);
+  private readonly primaryRates: Float64Array = new Float64Array(0);
+  private readonly primaryArrivals: Float64Array = new Float64Array(0);
+  private readonly primaryOverflows: Float64Array = new Float64Array(0);
+  /** Sum of the rates of the primaries that are full: the overflow stream's intensity. */
+  private overflowIntensity = 0;
   // time-varying profile
   private readonly profileEnd: Float64Array = new Float64Array(0);
   private readonly profileRate: Float64Array = new Float64Array(0);
   private readonly cycle: number = 0;
+  /** Integral of the profile's rate from the cycle start to the end of each segment. */
+  private readonly profileCumulative: Float64Array = new Float64Array(0);
+  private readonly cycleIntegral: number = 0;
   private segment = 0;
   private cycleStart = 0;
 
@@ -186,6 +277,9 @@ export class Replication {
   private readonly fastPath: boolean;
   readonly traceTime: number[] = [];
   readonly traceBusy: number[] = [];
+  /** Retrying and waiting integrals at the same trace points (MSER-5 watches every state that can drift). */
+  readonly traceOrbit: number[] = [];
+  readonly traceQueue: number[] = [];
   /** Fresh calls seen before each trace point (the warm-up that cutting there discards). */
   readonly traceCalls: number[] = [];
   private nextTrace = 0;
@@ -205,6 +299,32 @@ export class Replication {
   private queueIntegral = 0;
   private measureStart = 0;
   private events = 0;
+  /** Long-run mean fresh-call rate where the process has no intensity kept in the loop (poisson, batch, renewal). */
+  private readonly meanCallRate: number = 0;
+  private intensityIntegral = 0;
+  private refusingIntensityIntegral = 0;
+  private refusingTime = 0;
+  private holdingDraws = 0;
+  private holdingSum = 0;
+  /** Lowest level (busy + waiting) counted as near refusal. */
+  private readonly nearLevel: number;
+  private nearRefusalTime = 0;
+  private nearRefusalCalls = 0;
+  private nearRefusalIntensityIntegral = 0;
+  private nearRefusalHoldingDraws = 0;
+  private nearRefusalHoldingSum = 0;
+  private nearRefusalGapDeviation = 0;
+  private phaseSojournDeviation = 0;
+  private nearRefusalPhaseSojournDeviation = 0;
+  /** MMPP: phase rate / stationary mean rate - 1, the weight of a sojourn's deviation. */
+  private phaseWeight: Float64Array = new Float64Array(0);
+  private readonly halfCalls: number;
+  private readonly halfSpan: number;
+  private halfTaken = false;
+  private halfTime = 0;
+  private halfBusyIntegral = 0;
+  private halfOrbitIntegral = 0;
+  private halfQueueIntegral = 0;
   private readonly occupancy: Float64Array;
 
   constructor(scenario: Scenario, index: number, options: ReplicationOptions = {}) {
@@ -234,7 +354,8 @@ export class Replication {
     let process = P_POISSON;
     let cycle = 0;
     const mmpp = mmppOf(a);
-    if (a.process === "poisson") rate = a.rate;
+    let meanCallRate = 0;
+    if (a.process === "poisson") meanCallRate = rate = a.rate;
     else if (mmpp) {
       process = P_MMPP;
       const k = mmpp.rates.length;
@@ -256,10 +377,12 @@ export class Replication {
     } else if (a.process === "renewal") {
       process = P_RENEWAL;
       this.interarrival = new LawSampler(a.interarrival);
+      meanCallRate = 1 / this.interarrival.mean;
     } else if (a.process === "batch") {
       process = P_BATCH;
       rate = a.rate;
       this.batchSize = new BatchSizeSampler(a.batchSize);
+      meanCallRate = rate * this.batchSize.mean;
       allOrNothing = a.admission === "all-or-nothing";
     } else if (a.process === "overflow") {
       process = P_OVERFLOW;
@@ -270,6 +393,12 @@ export class Replication {
       let s = 0;
       this.primaryChoice = Float64Array.from(rates.map((r) => (s += r) / rate));
       this.primaryChoice[this.primaryChoice.length - 1] = 1;
+      this.primaryRates = Float64Array.from(rates);
+      this.primaryArrivals = new Float64Array(rates.length);
+      this.primaryOverflows = new Float64Array(rates.length);
+      rates.forEach((r, i) => {
+        if (this.primaryServers[i] === 0) this.overflowIntensity += r;
+      });
     } else if (a.process === "finite-source") {
       process = P_FINITE;
       sources = a.sources;
@@ -278,7 +407,13 @@ export class Replication {
       process = P_TIME_VARYING;
       this.profileEnd = new Float64Array(a.profile.length);
       this.profileRate = Float64Array.from(a.profile.map((s) => s.rate));
-      a.profile.forEach((s, i) => (this.profileEnd[i] = cycle += s.duration));
+      this.profileCumulative = new Float64Array(a.profile.length);
+      let integral = 0;
+      a.profile.forEach((s, i) => {
+        this.profileEnd[i] = cycle += s.duration;
+        this.profileCumulative[i] = integral += s.rate * s.duration;
+      });
+      this.cycleIntegral = integral;
     }
     this.process = process;
     this.rate = rate;
@@ -286,6 +421,7 @@ export class Replication {
     this.idleRate = idleRate;
     this.allOrNothing = allOrNothing;
     this.cycle = cycle;
+    this.meanCallRate = meanCallRate;
 
     const capacity = 64;
     this.heapTime = new Float64Array(capacity);
@@ -301,6 +437,9 @@ export class Replication {
     this.warmupCallsTarget = options.warmupCalls ?? run.warmupCalls ?? 0;
     this.warmupTimeTarget = options.warmupCalls !== undefined ? 0 : (run.warmupTime ?? 0);
     this.traceEvery = options.traceEvery ?? 0;
+    this.nearLevel = Math.max(0, this.servers + this.waitingPositions - nearRefusalMargin(scenario));
+    this.halfCalls = this.callsTarget === Infinity ? Infinity : Math.ceil(this.callsTarget / 2);
+    this.halfSpan = this.horizon === Infinity ? Infinity : this.horizon / 2;
     this.fastPath =
       !options.generalLoop && this.exponentialHoldingMean > 0 && process === P_POISSON && this.waitingPositions === 0 && !this.retryDelay && this.traceEvery === 0;
     if (this.warmupCallsTarget === 0 && this.warmupTimeTarget === 0) this.startMeasuring();
@@ -309,6 +448,8 @@ export class Replication {
     // Start: empty system, MMPP phase drawn from its stationary law.
     if (process === P_MMPP) {
       const pi = stationaryOfGenerator(mmpp!.switching);
+      const mean = pi.reduce((acc, p, i) => acc + p * mmpp!.rates[i], 0);
+      this.phaseWeight = Float64Array.from(mmpp!.rates, (r) => r / mean - 1);
       const u = this.arrivalRng.next();
       let s = 0;
       this.phase = pi.length - 1;
@@ -326,6 +467,14 @@ export class Replication {
     this.calls = this.blockedFirst = this.attempts = this.blockedAttempts = this.lost = 0;
     this.admitted = this.waited = this.abandoned = 0;
     this.waitSum = this.busyIntegral = this.orbitIntegral = this.queueIntegral = 0;
+    this.intensityIntegral = this.refusingIntensityIntegral = this.refusingTime = 0;
+    this.holdingDraws = this.holdingSum = 0;
+    this.nearRefusalTime = this.nearRefusalCalls = this.nearRefusalIntensityIntegral = this.nearRefusalHoldingDraws = this.nearRefusalHoldingSum = 0;
+    this.nearRefusalGapDeviation = this.phaseSojournDeviation = this.nearRefusalPhaseSojournDeviation = 0;
+    this.primaryArrivals.fill(0);
+    this.primaryOverflows.fill(0);
+    this.halfTaken = false;
+    this.halfTime = this.halfBusyIntegral = this.halfOrbitIntegral = this.halfQueueIntegral = 0;
     this.occupancy.fill(0);
     this.control = this.horizon === Infinity ? Infinity : this.t + this.horizon;
   }
@@ -333,7 +482,15 @@ export class Replication {
   private enterPhase(): void {
     const p = this.phase;
     const out = this.phaseOut[p];
-    this.nextPhase = out > 0 ? this.t - Math.log(this.arrivalRng.next()) / out : Infinity;
+    if (out > 0) {
+      const e = -Math.log(this.arrivalRng.next()); // sojourn x exit rate: a unit exponential
+      this.nextPhase = this.t + e / out;
+      if (this.measuring) {
+        const deviation = (e - 1) * this.phaseWeight[p];
+        this.phaseSojournDeviation += deviation;
+        if (this.busy + this.waiting >= this.nearLevel) this.nearRefusalPhaseSojournDeviation += deviation;
+      }
+    } else this.nextPhase = Infinity;
     const r = this.phaseRates[p];
     this.nextArrival = r > 0 ? this.t - Math.log(this.arrivalRng.next()) / r : Infinity;
   }
@@ -351,9 +508,12 @@ export class Replication {
         this.nextArrival = r > 0 ? t - Math.log(this.arrivalRng.next()) / r : Infinity;
         return;
       }
-      case P_RENEWAL:
-        this.nextArrival = t + this.interarrival!.sample(this.arrivalRng);
+      case P_RENEWAL: {
+        const gap = this.interarrival!.sample(this.arrivalRng);
+        this.nextArrival = t + gap;
+        if (this.measuring && this.busy + this.waiting >= this.nearLevel) this.nearRefusalGapDeviation += gap / this.interarrival!.mean - 1;
         return;
+      }
       case P_FINITE: {
         const idle = this.sources - this.busy - this.orbit - this.waiting;
         this.nextArrival = idle > 0 ? t - Math.log(this.arrivalRng.next()) / (idle * this.idleRate) : Infinity;
@@ -382,8 +542,35 @@ export class Replication {
       if (++this.segment === this.profileEnd.length) {
         this.segment = 0;
         this.cycleStart += this.cycle;
+        // Why: a profile with near-empty stretches needs many cycles per arrival; walking them one
+        // segment at a time held the loop (and its cancellation check) for ever. Whole cycles are
+        // skipped in one step; each call then walks at most one cycle's segments.
+        if (need > this.cycleIntegral) {
+          const cycles = Math.floor(need / this.cycleIntegral);
+          need = Math.max(0, need - cycles * this.cycleIntegral);
+          this.cycleStart += cycles * this.cycle;
+          if (!Number.isFinite(this.cycleStart)) return Infinity; // no arrival within floating-point time
+        }
+        now = this.cycleStart;
       }
     }
+  }
+
+  /** Integral of the time-varying profile's rate from time 0 to t (periodic extension). */
+  private profileIntegral(t: number): number {
+    const cycles = Math.floor(t / this.cycle);
+    const within = t - cycles * this.cycle;
+    const ends = this.profileEnd;
+    let lo = 0;
+    let hi = ends.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (ends[mid] < within) lo = mid + 1;
+      else hi = mid;
+    }
+    const before = lo > 0 ? this.profileCumulative[lo - 1] : 0;
+    const start = lo > 0 ? ends[lo - 1] : 0;
+    return cycles * this.cycleIntegral + before + this.profileRate[lo] * Math.min(within - start, ends[lo] - start);
   }
 
   private push(time: number, kind: number, payload: number): void {
@@ -471,10 +658,12 @@ export class Replication {
   /** One attempt (fresh or repeated) at the group under study. */
   private attempt(attemptNumber: number, fresh: boolean): void {
     this.attempts++;
+    const level = this.busy + this.waiting;
+    if (fresh && level >= this.nearLevel) this.nearRefusalCalls++;
     if (this.busy < this.servers) {
       this.busy++;
       this.admitted++;
-      this.push(this.t + this.holding.sample(this.holdingRng), K_DEPARTURE, 0);
+      this.seize(level);
       return;
     }
     if (this.waiting < this.waitingPositions) {
@@ -494,6 +683,18 @@ export class Replication {
     this.refused(attemptNumber);
   }
 
+  /** A call seizes a server of the group under study: draw its holding time and schedule the departure. */
+  private seize(level: number): void {
+    const h = this.holding.sample(this.holdingRng);
+    this.holdingDraws++;
+    this.holdingSum += h;
+    if (level >= this.nearLevel) {
+      this.nearRefusalHoldingDraws++;
+      this.nearRefusalHoldingSum += h;
+    }
+    this.push(this.t + h, K_DEPARTURE, 0);
+  }
+
   private refused(attemptNumber: number): void {
     if (this.retryDelay && attemptNumber < this.maxAttempts && this.retryRng.next() < this.persistence) {
       this.orbit++;
@@ -508,10 +709,17 @@ export class Replication {
       let i = 0;
       while (u > this.primaryChoice[i]) i++;
       if (this.primaryBusy[i] < this.primaryServers[i]) {
-        this.primaryBusy[i]++;
+        if (this.measuring) this.primaryArrivals[i]++;
+        if (++this.primaryBusy[i] === this.primaryServers[i]) this.overflowIntensity += this.primaryRates[i];
         this.push(this.t + this.holding.sample(this.holdingRng), K_PRIMARY_DEPARTURE, i);
         this.scheduleFreshArrival();
         return true;
+      }
+      if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) this.startMeasuring();
+      if (this.measuring && this.calls >= this.callsTarget) return false;
+      if (this.measuring) {
+        this.primaryArrivals[i]++;
+        this.primaryOverflows[i]++;
       }
     }
     if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) this.startMeasuring();
@@ -523,6 +731,8 @@ export class Replication {
     if (this.traceEvery > 0 && this.callsSeen >= this.nextTrace) {
       this.traceTime.push(this.t);
       this.traceBusy.push(this.busyIntegral);
+      this.traceOrbit.push(this.orbitIntegral);
+      this.traceQueue.push(this.queueIntegral);
       this.traceCalls.push(this.callsSeen);
       while (this.nextTrace <= this.callsSeen) this.nextTrace += this.traceEvery;
     }
@@ -534,6 +744,7 @@ export class Replication {
         this.attempts += size;
         this.blockedAttempts += size;
         this.blockedFirst += size;
+        if (this.busy + this.waiting >= this.nearLevel) this.nearRefusalCalls += size;
         for (let c = 0; c < size; c++) this.refused(1);
       } else for (let c = 0; c < size; c++) this.attempt(1, true);
     } else {
@@ -541,8 +752,17 @@ export class Replication {
       this.calls++;
       this.attempt(1, true);
     }
+    if (this.measuring && !this.halfTaken && (this.calls >= this.halfCalls || this.t - this.measureStart >= this.halfSpan)) this.takeHalf(this.busyIntegral);
     this.scheduleFreshArrival();
     return true;
+  }
+
+  private takeHalf(busyIntegral: number): void {
+    this.halfTaken = true;
+    this.halfTime = this.t - this.measureStart;
+    this.halfBusyIntegral = busyIntegral;
+    this.halfOrbitIntegral = this.orbitIntegral;
+    this.halfQueueIntegral = this.queueIntegral;
   }
 
   private departure(): void {
@@ -552,10 +772,11 @@ export class Replication {
       this.queueHead++;
       if (this.queueAlive[pos] === 0) continue;
       this.queueAlive[pos] = 0;
+      const level = this.busy + this.waiting; // just before this call leaves the line for a server
       this.waiting--;
       this.waitSum += this.t - this.queueArrival[pos];
       this.busy++;
-      this.push(this.t + this.holding.sample(this.holdingRng), K_DEPARTURE, 0);
+      this.seize(level);
       break;
     }
     if (this.waiting === 0) this.queueHead = this.queueTail; // drop abandoned leftovers
@@ -623,7 +844,9 @@ export class Replication {
       const payload = this.heapPayload[0];
       this.popRoot();
       if (kind === K_DEPARTURE) this.departure();
-      else if (kind === K_PRIMARY_DEPARTURE) this.primaryBusy[payload]--;
+      else if (kind === K_PRIMARY_DEPARTURE) {
+        if (this.primaryBusy[payload]-- === this.primaryServers[payload]) this.overflowIntensity -= this.primaryRates[payload];
+      }
       else if (kind === K_RETRY) {
         this.orbit--;
         this.attempt(payload + 1, false);
@@ -639,6 +862,33 @@ export class Replication {
     this.busyIntegral += this.busy * dt;
     this.orbitIntegral += this.orbit * dt;
     this.queueIntegral += this.waiting * dt;
+    const refusing = this.busy === this.servers && this.waiting === this.waitingPositions;
+    const near = this.busy + this.waiting >= this.nearLevel;
+    if (this.waitingPositions > 0) {
+      if (refusing) this.refusingTime += dt;
+      if (near) this.nearRefusalTime += dt;
+    }
+    // Constant-rate processes get rate x time in stats(); the others integrate their intensity here.
+    let intensity = -1;
+    switch (this.process) {
+      case P_MMPP:
+        intensity = this.phaseRates[this.phase] * dt;
+        break;
+      case P_FINITE:
+        intensity = (this.sources - this.busy - this.orbit - this.waiting) * this.idleRate * dt;
+        break;
+      case P_OVERFLOW:
+        intensity = this.overflowIntensity * dt;
+        break;
+      case P_TIME_VARYING:
+        intensity = this.profileIntegral(to) - this.profileIntegral(this.t);
+        break;
+    }
+    if (intensity >= 0) {
+      this.intensityIntegral += intensity;
+      if (refusing) this.refusingIntensityIntegral += intensity;
+      if (near) this.nearRefusalIntensityIntegral += intensity;
+    }
     this.t = to;
   }
 
@@ -671,6 +921,11 @@ export class Replication {
     let calls = this.calls;
     let blocked = this.blockedFirst;
     let busyIntegral = this.busyIntegral;
+    let holdingSum = this.holdingSum;
+    let nearCalls = this.nearRefusalCalls;
+    let nearDraws = this.nearRefusalHoldingDraws;
+    let nearSum = this.nearRefusalHoldingSum;
+    const nearLevel = this.nearLevel;
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
@@ -694,6 +949,8 @@ export class Replication {
         calls = 0;
         blocked = 0;
         busyIntegral = 0;
+        holdingSum = 0;
+        nearCalls = nearDraws = nearSum = 0;
         continue;
       }
       const dt = next - t;
@@ -732,6 +989,8 @@ export class Replication {
         calls = 0;
         blocked = 0;
         busyIntegral = 0;
+        holdingSum = 0;
+        nearCalls = nearDraws = nearSum = 0;
       }
       if (this.measuring && calls >= this.callsTarget) {
         finished = true;
@@ -740,9 +999,17 @@ export class Replication {
       events++;
       this.callsSeen++;
       calls++;
+      const near = busy >= nearLevel;
+      if (near) nearCalls++;
       if (busy < servers) {
         busy++;
-        const time = t - meanHolding * Math.log(hr.next());
+        const h = -meanHolding * Math.log(hr.next());
+        holdingSum += h;
+        if (near) {
+          nearDraws++;
+          nearSum += h;
+        }
+        const time = t + h;
         const sq = seq++;
         let i = n++;
         while (i > 0) {
@@ -756,6 +1023,10 @@ export class Replication {
         ht[i] = time;
         hs[i] = sq;
       } else blocked++;
+      if (this.measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
+        this.t = t;
+        this.takeHalf(busyIntegral);
+      }
       nextArrival = t - Math.log(ar.next()) * meanGap;
     }
     hk.fill(K_DEPARTURE, 0, n);
@@ -773,6 +1044,11 @@ export class Replication {
     this.blockedAttempts = blocked;
     this.lost = blocked;
     this.admitted = calls - blocked;
+    this.holdingDraws = calls - blocked;
+    this.holdingSum = holdingSum;
+    this.nearRefusalCalls = nearCalls;
+    this.nearRefusalHoldingDraws = nearDraws;
+    this.nearRefusalHoldingSum = nearSum;
     this.busyIntegral = busyIntegral;
     if (finished) return this.finish();
     return false;
@@ -812,6 +1088,44 @@ export class Replication {
       events: this.events,
       warmupCalls: this.warmupCallsTarget,
       warmupTime: this.measureStart,
+      ...this.intensityStats(),
+      refusingTime: this.waitingPositions > 0 ? this.refusingTime : this.occupancy[this.servers],
+      nearRefusalTime: this.nearTime(),
+      nearRefusalCalls: this.nearRefusalCalls,
+      nearRefusalHoldingDraws: this.nearRefusalHoldingDraws,
+      nearRefusalHoldingSum: this.nearRefusalHoldingSum,
+      nearRefusalGapDeviation: this.nearRefusalGapDeviation,
+      phaseSojournDeviation: this.phaseSojournDeviation,
+      nearRefusalPhaseSojournDeviation: this.nearRefusalPhaseSojournDeviation,
+      holdingDraws: this.holdingDraws,
+      holdingSum: this.holdingSum,
+      primaryArrivals: Array.from(this.primaryArrivals),
+      primaryOverflows: Array.from(this.primaryOverflows),
+      halfTime: this.halfTime,
+      halfBusyIntegral: this.halfBusyIntegral,
+      halfOrbitIntegral: this.halfOrbitIntegral,
+      halfQueueIntegral: this.halfQueueIntegral,
+      warmupAtBound: 0,
+    };
+  }
+
+  /** Without waiting positions the level is the busy count, so the window's time is read off the occupancy (the same in every loop). */
+  private nearTime(): number {
+    if (this.waitingPositions > 0) return this.nearRefusalTime;
+    let sum = 0;
+    for (let k = this.nearLevel; k <= this.servers; k++) sum += this.occupancy[k];
+    return sum;
+  }
+
+  private intensityStats(): { intensityIntegral: number; refusingIntensityIntegral: number; nearRefusalIntensityIntegral: number } {
+    if (this.meanCallRate === 0)
+      return { intensityIntegral: this.intensityIntegral, refusingIntensityIntegral: this.refusingIntensityIntegral, nearRefusalIntensityIntegral: this.nearRefusalIntensityIntegral };
+    // Constant rate: the same products in every loop (the fast path keeps no intensity sum).
+    const refusing = this.waitingPositions > 0 ? this.refusingTime : this.occupancy[this.servers];
+    return {
+      intensityIntegral: this.meanCallRate * (this.t - this.measureStart),
+      refusingIntensityIntegral: this.meanCallRate * refusing,
+      nearRefusalIntensityIntegral: this.meanCallRate * this.nearTime(),
     };
   }
 }

@@ -6,6 +6,9 @@ export interface Interval {
   halfWidth: number;
   ciLow: number;
   ciHigh: number;
+  /** See result.ts: how the estimate was made, and whether ciHigh is a one-sided bound. */
+  method?: string;
+  upperBoundOnly?: boolean;
 }
 
 /**
@@ -44,8 +47,17 @@ export function ratioInterval(y: ArrayLike<number>, x: ArrayLike<number>, confid
  * Returns the number of raw observations to discard.
  */
 export function mser5(observations: ArrayLike<number>): number {
+  return mser5Cut(observations).discard;
+}
+
+/**
+ * MSER-5 with its diagnosis: `atBound` when the minimum falls on the last admissible point
+ * (half the batches), the sign that the series was still settling when the pilot ended, so the
+ * rule's answer is a bound, not a truncation point (Franklin & White 2008 treat it as a failure).
+ */
+export function mser5Cut(observations: ArrayLike<number>): { discard: number; atBound: boolean } {
   const m = Math.floor(observations.length / 5);
-  if (m < 2) return 0;
+  if (m < 2) return { discard: 0, atBound: false };
   const z = new Float64Array(m);
   for (let j = 0; j < m; j++) {
     let s = 0;
@@ -65,11 +77,12 @@ export function mser5(observations: ArrayLike<number>): number {
     const ss = Math.max(0, sumSq - (sum * sum) / count);
     values[j] = ss / (count * count);
   }
-  for (let d = 0; d <= Math.floor(m / 2); d++) {
+  const last = Math.floor(m / 2);
+  for (let d = 0; d <= last; d++) {
     if (values[d] < bestValue) {
       bestValue = values[d];
       best = d;
     }
   }
-  return best * 5;
+  return { discard: best * 5, atBound: best === last && last > 0 };
 }

@@ -1,6 +1,6 @@
 // Spillway simulation engine, browser-safe entry: schema, plan, aggregate, results, references.
 // Node-only parts (thread pool, runScenario) are in ./node.ts.
-export { scenarioSchema, parseScenario, ScenarioError, formatPath, lawSchema, arrivalsSchema, batchSizeSchema, LIMITS, lawMean } from "./scenario";
+export { scenarioSchema, parseScenario, ScenarioError, formatPath, scenarioErrorMap, scenarioFieldErrors, issuePath, lawSchema, arrivalsSchema, batchSizeSchema, LIMITS, lawMean } from "./scenario";
 export type { Scenario, ScenarioInput, Law, BatchSizeLaw, Arrivals } from "./scenario";
 export { Replication, type ReplicationStats, type ReplicationOptions } from "./engine";
 export { ReplicationJob, runReplication, SimulationCancelledError, SLICE_EVENTS } from "./replication";
@@ -12,3 +12,6 @@ export { referencesFor, referenceSchema, offeredTraffic, type Reference } from "
 export { ratioInterval, mser5, type Interval } from "./estimators";
 export { Random, SUBSTREAM } from "./random";
 export { LawSampler, BatchSizeSampler } from "./laws";
+export { planRunLength, erlangTimeCongestionVariance, type RunLengthPlan, type RunLengthOptions } from "./run-length";
+export { callCongestionEstimate, controlledRatio } from "./variance-reduction";
+export { relaxationTime, unseenMeanShare } from "./diagnostics";

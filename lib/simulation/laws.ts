@@ -1,6 +1,7 @@
+import lnGamma from "@stdlib/math-base-special-gammaln";
 import type { BatchSizeLaw, Law } from "./scenario";
-import { lnGamma } from "./scenario";
 import type { Random } from "./random";
+import { zigExponential, zigGamma, zigNormal } from "./ziggurat";
 
 /** Numeric law codes: the hot loop switches on these instead of calling closures. */
 export const LAW = {
@@ -35,6 +36,13 @@ export function balancedHyperexponential(mean: number, scv: number): { probabili
   return { probabilities: [p, 1 - p], means: [mean / (2 * p), mean / (2 * (1 - p))] };
 }
 
+/**
+ * Codes of the ziggurat variants (`LawSampler(law, { ziggurat: true })`): the same laws drawn
+ * with ziggurat exponentials and normals (ziggurat.ts) instead of logarithms and the polar method.
+ * Different streams, same laws; the reference loop keeps the codes above.
+ */
+const ZIGGURAT_CODE: Partial<Record<number, number>> = { [LAW.exponential]: 10, [LAW.erlang]: 11, [LAW.hyperexponential]: 12, [LAW.lognormal]: 13, [LAW.gamma]: 14 };
+
 /** Precomputed sampler of one continuous law. */
 export class LawSampler {
   readonly code: number;
@@ -45,8 +53,8 @@ export class LawSampler {
   private table: Float64Array = new Float64Array(0);
   private values: Float64Array = new Float64Array(0);
 
-  constructor(law: Law) {
-    this.code = LAW[law.law];
+  constructor(law: Law, options: { ziggurat?: boolean } = {}) {
+    this.code = (options.ziggurat ? ZIGGURAT_CODE[LAW[law.law]] : undefined) ?? LAW[law.law];
     switch (law.law) {
       case "exponential":
         this.a = law.mean;
@@ -139,8 +147,25 @@ export class LawSampler {
         return this.a * Math.pow(rng.next52(), this.b);
       case 8:
         return this.a + this.b * rng.next();
-      default:
+      case 9:
         return this.values[Math.floor(rng.next() * this.values.length)];
+      case 10:
+        return this.a * zigExponential(rng);
+      case 11: {
+        let sum = 0;
+        for (let i = 0; i < this.k; i++) sum += zigExponential(rng);
+        return this.a * sum;
+      }
+      case 12: {
+        const u = rng.next();
+        let i = 0;
+        while (i < this.table.length - 1 && u > this.table[i]) i++;
+        return this.values[i] * zigExponential(rng);
+      }
+      case 13:
+        return Math.exp(this.a + this.b * zigNormal(rng));
+      default:
+        return this.b * zigGamma(rng, this.a);
     }
   }
 }

@@ -1,5 +1,6 @@
 import { aggregateCalls, mergeAggregates, type PartialAggregate } from "./aggregate";
 import { ratioInterval } from "./estimators";
+import { callCongestionEstimate } from "./variance-reduction";
 import { LIMITS, freshCallRate, lawMean, type Scenario } from "./scenario";
 
 /**
@@ -61,13 +62,19 @@ export function chunkRange(plan: RunPlan, chunk: number): { firstReplication: nu
   return { firstReplication, replications };
 }
 
-/** Relative half-width of the call-congestion interval; Infinity when it cannot be trusted (no blocking seen, zero standard error). */
-export function callCongestionPrecision(aggregate: PartialAggregate, confidence: number): number {
-  const ci = ratioInterval(
-    aggregate.records.map((r) => r.blockedFirst),
-    aggregate.records.map((r) => r.calls),
-    confidence,
-  );
+/**
+ * Relative half-width of the call-congestion interval; Infinity when it cannot be trusted (no
+ * blocking seen, zero standard error). With the scenario it is the interval the result reports
+ * (variance-reduced, see variance-reduction.ts), else the direct count's.
+ */
+export function callCongestionPrecision(aggregate: PartialAggregate, confidence: number, scenario?: Scenario): number {
+  const ci = scenario
+    ? callCongestionEstimate(scenario, aggregate.records, confidence)
+    : ratioInterval(
+        aggregate.records.map((r) => r.blockedFirst),
+        aggregate.records.map((r) => r.calls),
+        confidence,
+      );
   // Why: a zero standard error (no blocked call in any replication) is no evidence of precision.
   if (!(ci.estimate > 0) || !(ci.standardError > 0) || !Number.isFinite(ci.halfWidth)) return Infinity;
   return ci.halfWidth / ci.estimate;
@@ -121,7 +128,7 @@ function stopReason(
 ): "precision-met" | "call-budget" | "replication-limit" | undefined {
   const precision = plan.precision!;
   const replications = prefix.records.length;
-  if (replications >= precision.minReplications && callCongestionPrecision(prefix, scenario.run.confidence) <= precision.relativeHalfWidth) return "precision-met";
+  if (replications >= precision.minReplications && callCongestionPrecision(prefix, scenario.run.confidence, scenario) <= precision.relativeHalfWidth) return "precision-met";
   if (checkpoint + 1 >= maxChunks) return "replication-limit";
   // The budget rule looks one chunk ahead at the mean calls per replication so far.
   const calls = aggregateCalls(prefix);

@@ -53,10 +53,14 @@ export class InlineRunner implements ReplicationRunner {
  * Where a replication thread's code comes from: the bundled JavaScript (built by
  * `lib/ops/bundle.ts`, starts in milliseconds) when present, else the TypeScript source through
  * tsx's require hook (`execArgv: ["--import", "tsx"]` does not reach a worker's entry on Node 20).
+ * The bundle is taken from SPILLWAY_BUNDLE_DIR (set by npm start/test right after bundling) or,
+ * when this code is itself running from a bundle (the CLI), from beside it: both were built from
+ * the same sources. Source runs without the variable never pick up a possibly stale bundle.
  */
 function workerSource(): { code: string; eval: true } {
   const here = path.dirname(fileURLToPath(moduleUrl()));
-  const bundled = process.env.SPILLWAY_BUNDLE_DIR ? path.join(process.env.SPILLWAY_BUNDLE_DIR, "replication-worker.js") : undefined;
+  const dir = process.env.SPILLWAY_BUNDLE_DIR ?? (path.extname(fileURLToPath(moduleUrl())) === ".js" ? here : undefined);
+  const bundled = dir ? path.join(dir, "replication-worker.js") : undefined;
   if (bundled && existsSync(bundled)) return { code: `require(${JSON.stringify(bundled)});`, eval: true };
   const localRequire = createRequire(path.join(here, "pool.ts"));
   const tsxCjs = localRequire.resolve("tsx/cjs");

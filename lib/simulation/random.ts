@@ -44,8 +44,8 @@ export class Random {
     if ((this.a | this.b | this.c | this.d) === 0) this.a = 1; // all-zero state is a fixed point
   }
 
-  /** 32-bit resolution: (k + 0.5) / 2^32. Exponential draws are capped near 22.9 means (P = 1e-10 of exceeding). */
-  next(): number {
+  /** The generator's next 32-bit output as an unsigned integer (the ziggurat samplers use the word itself). */
+  nextUint32(): number {
     const r = Math.imul(this.b, 5);
     const out = Math.imul((r << 7) | (r >>> 25), 9);
     const t = this.b << 9;
@@ -55,7 +55,12 @@ export class Random {
     this.a ^= this.d;
     this.c ^= t;
     this.d = (this.d << 11) | (this.d >>> 21);
-    return (out >>> 0) * 2.3283064365386963e-10 + 1.1641532182693481e-10;
+    return out >>> 0;
+  }
+
+  /** 32-bit resolution: (k + 0.5) / 2^32. Exponential draws are capped near 22.9 means (P = 1e-10 of exceeding). */
+  next(): number {
+    return this.nextUint32() * 2.3283064365386963e-10 + 1.1641532182693481e-10;
   }
 
   /**

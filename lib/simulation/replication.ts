@@ -1,6 +1,8 @@
-import { Replication, type ReplicationStats } from "./engine";
-import { mser5 } from "./estimators";
-import { batchMean, lawMean, type Scenario } from "./scenario";
+import type { ReplicationStats } from "./engine";
+import { createReplication, type ReplicationLoop } from "./dispatch";
+import { BatchSizeSampler, LawSampler } from "./laws";
+import { mser5Cut } from "./estimators";
+import type { Scenario } from "./scenario";
 
 /** Events per slice between progress reports and cancellation checks (~10-30 ms of work). */
 export const SLICE_EVENTS = 1 << 18;
@@ -24,15 +26,15 @@ function approximateCallRate(scenario: Scenario): number {
     case "poisson":
       return a.rate;
     case "batch":
-      return a.rate * batchMean(a.batchSize);
+      return a.rate * new BatchSizeSampler(a.batchSize).mean;
     case "mmpp":
       return Math.max(...a.rates);
     case "on-off":
       return a.onRate;
     case "renewal":
-      return 1 / lawMean(a.interarrival);
+      return 1 / new LawSampler(a.interarrival).mean;
     case "overflow":
-      return a.primaries.reduce((s, p) => s + p.traffic, 0) / lawMean(scenario.holding);
+      return a.primaries.reduce((s, p) => s + p.traffic, 0) / new LawSampler(scenario.holding).mean;
     case "finite-source":
       return a.sources * a.idleRate;
     case "time-varying":
@@ -40,16 +42,29 @@ function approximateCallRate(scenario: Scenario): number {
   }
 }
 
+/** Time averages of an integral over consecutive trace intervals (one MSER-5 observation each). */
+function intervalAverages(traceTime: readonly number[], integral: readonly number[]): number[] {
+  const observations: number[] = [];
+  for (let i = 1; i < traceTime.length; i++) {
+    const dt = traceTime[i] - traceTime[i - 1];
+    observations.push(dt > 0 ? (integral[i] - integral[i - 1]) / dt : 0);
+  }
+  return observations;
+}
+
 /**
  * One replication including, for `warmup: "auto"`, an MSER-5 pilot: the pilot runs the same
- * random streams without warm-up and records the time-average number of busy servers over
- * consecutive groups of fresh calls; MSER-5 picks the truncation point, and the replication is
- * run again discarding that many fresh calls (same streams, so the same trajectory).
+ * random streams without warm-up and records, over consecutive groups of fresh calls, the
+ * time-average of every state that can drift (busy servers, calls retrying, calls waiting);
+ * MSER-5 picks a truncation point for each, the latest wins, and the replication is run again
+ * discarding that many fresh calls (same streams, so the same trajectory). A state that never
+ * leaves 0 (no retrials, no waiting line) has no say.
  */
 export class ReplicationJob {
-  private current: Replication;
+  private current: ReplicationLoop;
   private pilot: boolean;
   private readonly traceEvery: number;
+  private warmupAtBound = 0;
 
   constructor(
     private readonly scenario: Scenario,
@@ -58,22 +73,23 @@ export class ReplicationJob {
     this.pilot = scenario.run.warmup === "auto";
     const expectedCalls = scenario.run.callsPerReplication ?? (scenario.run.horizon ?? 0) * approximateCallRate(scenario);
     this.traceEvery = Math.max(1, Math.floor(expectedCalls / MSER_OBSERVATIONS));
-    this.current = new Replication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {});
+    this.current = createReplication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {});
   }
 
   advance(maxEvents: number): boolean {
     if (!this.current.advance(maxEvents)) return false;
     if (!this.pilot) return true;
-    const { traceTime, traceBusy } = this.current;
-    const observations: number[] = [];
-    for (let i = 1; i < traceTime.length; i++) {
-      const dt = traceTime[i] - traceTime[i - 1];
-      observations.push(dt > 0 ? (traceBusy[i] - traceBusy[i - 1]) / dt : 0);
+    const { traceTime, traceBusy, traceOrbit, traceQueue } = this.current;
+    let discard = 0;
+    for (const integral of [traceBusy, traceOrbit, traceQueue]) {
+      if (integral.length === 0 || integral[integral.length - 1] === 0) continue; // the state stayed at 0
+      const cut = mser5Cut(intervalAverages(traceTime, integral));
+      discard = Math.max(discard, cut.discard);
+      if (cut.atBound) this.warmupAtBound = 1;
     }
-    const discard = mser5(observations);
     this.pilot = false;
     // Cutting after `discard` observations starts measuring at trace point `discard`.
-    this.current = new Replication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 });
+    this.current = createReplication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 });
     return false;
   }
 
@@ -83,7 +99,9 @@ export class ReplicationJob {
   }
 
   stats(): ReplicationStats {
-    return this.current.stats();
+    const stats = this.current.stats();
+    stats.warmupAtBound = this.warmupAtBound;
+    return stats;
   }
 }
 

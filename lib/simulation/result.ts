@@ -3,14 +3,26 @@ import type { PartialAggregate, ReplicationRecord } from "./aggregate";
 import { ratioInterval, type Interval } from "./estimators";
 import { referenceSchema, offeredTraffic, type Reference } from "./references";
 import type { Scenario } from "./scenario";
+import { callCongestionEstimate } from "./variance-reduction";
 import { warningSchema, warningsFor } from "./warnings";
 
+/**
+ * An estimate with its Student t interval. For probabilities (call and time congestion, loss,
+ * waiting, abandonment, attempt congestion) [ciLow, ciHigh] is clipped to [0, 1]; `halfWidth`
+ * stays the unclipped t half-width. When no event was observed the interval is [0, upper] with
+ * `upperBoundOnly: true`, the exact one-sided binomial bound 1 - (1 - confidence)^(1/n) over the
+ * n trials (calls, attempts or admitted calls).
+ */
 const intervalSchema = z.object({
   estimate: z.number(),
   standardError: z.number(),
   halfWidth: z.number(),
   ciLow: z.number(),
   ciHigh: z.number(),
+  /** How the estimate was made, when not the plain ratio across replications (see variance-reduction.ts). */
+  method: z.string().optional(),
+  /** No event observed: ciHigh is a one-sided upper confidence bound, not a two-sided interval. */
+  upperBoundOnly: z.boolean().optional(),
 });
 
 /** What `simulate --json` prints and the worker stores. NaN never appears: JSON has none, so undefined measures are null. */
@@ -24,7 +36,10 @@ export const simulationResultSchema = z.object({
   events: z.number(),
   /** Mean offered traffic at the group under study before retrials (erlangs); for overflow, the primaries' total. */
   offeredTraffic: z.number(),
+  /** Refused first attempts / fresh calls, by the best valid estimator (`method` says which; see variance-reduction.ts). */
   callCongestion: intervalSchema,
+  /** The plain direct count (refused first attempts / fresh calls), always reported beside it. */
+  callCongestionDirect: intervalSchema,
   timeCongestion: intervalSchema,
   carriedTraffic: intervalSchema,
   /** With retrials: */
@@ -53,6 +68,8 @@ export const simulationResultSchema = z.object({
   perReplication: z.object({ callCongestion: z.array(z.number()), timeCongestion: z.array(z.number()), calls: z.array(z.number()) }),
   /** Machine-readable reasons not to trust a figure; empty when all is well. */
   warnings: z.array(warningSchema),
+  /** Which loop ran the replications (lib/simulation/dispatch.ts); absent in results stored before it was recorded. */
+  enginePath: z.enum(["reference", "specialised", "markov"]).optional(),
 });
 export type SimulationResult = z.infer<typeof simulationResultSchema>;
 
@@ -69,18 +86,44 @@ function summary(values: number[]): { mean: number; min: number; max: number } {
 }
 
 function interval(y: number[], x: number[], confidence: number): Interval {
-  const ci = ratioInterval(y, x, confidence);
-  // One replication or zero denominators leave no interval; report a zero-width one at the point.
-  const clean = (v: number, fallback: number) => (Number.isFinite(v) ? v : fallback);
-  const estimate = clean(ci.estimate, 0);
+  return clean(ratioInterval(y, x, confidence));
+}
+
+/** One replication or zero denominators leave no interval; report a zero-width one at the point. */
+function clean(ci: Interval): Interval {
+  const finite = (v: number, fallback: number) => (Number.isFinite(v) ? v : fallback);
+  const estimate = finite(ci.estimate, 0);
   return {
     estimate,
-    standardError: clean(ci.standardError, 0),
-    halfWidth: clean(ci.halfWidth, 0),
-    ciLow: clean(ci.ciLow, estimate),
-    ciHigh: clean(ci.ciHigh, estimate),
+    standardError: finite(ci.standardError, 0),
+    halfWidth: finite(ci.halfWidth, 0),
+    ciLow: finite(ci.ciLow, estimate),
+    ciHigh: finite(ci.ciHigh, estimate),
   };
 }
+
+/** Exact one-sided upper confidence bound on a probability when 0 events were seen in n trials (Clopper-Pearson). */
+export function zeroEventUpperBound(trials: number, confidence: number): number {
+  return trials > 0 ? 1 - Math.pow(1 - confidence, 1 / trials) : 1;
+}
+
+/** A probability's interval clipped to [0, 1], or [0, upper bound] when no event was observed in `trials`. */
+function probability(ci: Interval, trials: number, confidence: number): Interval {
+  if (ci.estimate === 0 && !(ci.standardError > 0)) return { ...ci, ciLow: 0, ciHigh: zeroEventUpperBound(trials, confidence), upperBoundOnly: true };
+  return { ...ci, ciLow: Math.max(0, ci.ciLow), ciHigh: Math.min(1, ci.ciHigh) };
+}
+
+/** Result fields that are probabilities (clipped to [0, 1]). */
+export const PROBABILITY_MEASURES = [
+  "callCongestion",
+  "callCongestionDirect",
+  "timeCongestion",
+  "firstAttemptBlocking",
+  "lossProbability",
+  "attemptCongestion",
+  "waitingProbability",
+  "abandonmentProbability",
+] as const;
 
 /**
  * Builds the stored result from the folded aggregate of a run (see aggregate.ts). References are
@@ -102,15 +145,22 @@ export function buildResult(
   for (const s of stats) totalTime += s.time;
   const occupancy = aggregate.occupancy;
   const warmups = col((s) => s.warmupCalls);
+  const sum = (v: number[]) => v.reduce((a, b) => a + b, 0);
+  const totalCalls = sum(calls);
+  const direct = probability(interval(col((s) => s.blockedFirst), calls, c), totalCalls, c);
+  const best = stats.length > 1 ? callCongestionEstimate(scenario, stats, c) : undefined;
+  const callCongestion = best && Number.isFinite(best.estimate) && Number.isFinite(best.standardError) ? probability(clean(best), totalCalls, c) : direct;
+  if (best && callCongestion !== direct) callCongestion.method = best.method;
   const result: SimulationResult = {
     seed: scenario.run.seed,
     confidence: c,
     replications: stats.length,
-    calls: calls.reduce((a, b) => a + b, 0),
+    calls: totalCalls,
     events: col((s) => s.events).reduce((a, b) => a + b, 0),
     offeredTraffic: offeredTraffic(scenario),
-    callCongestion: interval(col((s) => s.blockedFirst), calls, c),
-    timeCongestion: interval(col((s) => s.allBusyTime), time, c),
+    callCongestion,
+    callCongestionDirect: direct,
+    timeCongestion: probability(interval(col((s) => s.allBusyTime), time, c), totalCalls, c),
     carriedTraffic: interval(col((s) => s.busyIntegral), time, c),
     occupancy: occupancy.map((v) => (totalTime > 0 ? v / totalTime : 0)),
     warmupCalls: summary(warmups),
@@ -123,20 +173,21 @@ export function buildResult(
       calls,
     },
     warnings: [],
+    enginePath: stats[0]?.path ?? "reference",
   };
   if (scenario.retrials) {
     result.firstAttemptBlocking = result.callCongestion;
-    result.lossProbability = interval(col((s) => s.lost), calls, c);
+    result.lossProbability = probability(interval(col((s) => s.lost), calls, c), totalCalls, c);
     result.attemptsPerCall = interval(col((s) => s.attempts), calls, c);
-    result.attemptCongestion = interval(col((s) => s.blockedAttempts), col((s) => s.attempts), c);
+    result.attemptCongestion = probability(interval(col((s) => s.blockedAttempts), col((s) => s.attempts), c), sum(col((s) => s.attempts)), c);
     result.meanRetrying = interval(col((s) => s.orbitIntegral), time, c);
   }
   if (scenario.waitingPositions > 0) {
-    result.lossProbability ??= interval(col((s) => s.lost), calls, c);
-    result.waitingProbability = interval(col((s) => s.waited), admitted, c);
+    result.lossProbability ??= probability(interval(col((s) => s.lost), calls, c), totalCalls, c);
+    result.waitingProbability = probability(interval(col((s) => s.waited), admitted, c), sum(admitted), c);
     result.meanWait = interval(col((s) => s.waitSum), admitted, c);
     result.meanWaiting = interval(col((s) => s.queueIntegral), time, c);
-    result.abandonmentProbability = interval(col((s) => s.abandoned), admitted, c);
+    result.abandonmentProbability = probability(interval(col((s) => s.abandoned), admitted, c), sum(admitted), c);
   }
   result.warnings = warningsFor(scenario, aggregate, result);
   return result;

@@ -192,7 +192,12 @@ export const retrialsSchema = z.strictObject({
 
 export const runSchema = z
   .strictObject({
-    seed: z.number().int("must be an integer").min(0, "must be >= 0").max(Number.MAX_SAFE_INTEGER, "must be a safe integer"),
+    // Why: zod's int() also refuses integers beyond 2^53 - 1, so 2^53 was told "must be an integer".
+    seed: z
+      .number()
+      .int("must be an integer from 0 to 9007199254740991 (2^53 - 1)")
+      .min(0, "must be an integer from 0 to 9007199254740991 (2^53 - 1)")
+      .max(Number.MAX_SAFE_INTEGER, "must be an integer from 0 to 9007199254740991 (2^53 - 1)"),
     replications: z.number().int("must be an integer").min(2, "must be >= 2 (a confidence interval needs two)").max(LIMITS.replications, `must be <= ${LIMITS.replications}`),
     callsPerReplication: positiveInt(LIMITS.callsPerReplication).optional(),
     horizon: positive().optional(),
@@ -325,12 +330,17 @@ export type ScenarioInput = z.input<typeof scenarioSchema>;
 /** Invalid scenario: the caller's fault (CLI exit 2, API 400). */
 export class ScenarioError extends Error {
   readonly kind = "input" as const;
+  /** The first failing field as a form path (`arrivals.switching.1.0`), like every other domain error's `field`. */
+  readonly field: string;
   constructor(
     message: string,
     readonly path: string = "",
+    /** Every failing field (form path) with its message, in the same wording as `message`. */
+    readonly fields: Record<string, string> = {},
   ) {
     super(message);
     this.name = "ScenarioError";
+    this.field = Object.keys(fields)[0] ?? (path ? path.replace(/\[(\d+)\]/g, ".$1") : "scenario");
   }
 }
 
@@ -347,7 +357,8 @@ function typeName(value: unknown): string {
   return typeof value;
 }
 
-const shortMessages: z.core.$ZodErrorMap = (issue) => {
+/** The scenario's one-line wording for zod issues; the editor's resolver uses it too, so form and API say the same. */
+export const scenarioErrorMap: z.core.$ZodErrorMap = (issue) => {
   switch (issue.code) {
     case "invalid_type":
       return issue.input === undefined ? "required" : `expected ${issue.expected}, got ${typeName(issue.input)}`;
@@ -367,17 +378,31 @@ const shortMessages: z.core.$ZodErrorMap = (issue) => {
   }
 };
 
+/** Where an issue belongs: a discriminated union reports at the object, so name the discriminator field itself. */
+export function issuePath(issue: z.core.$ZodIssue): PropertyKey[] {
+  const path = [...issue.path];
+  if (issue.code === "invalid_union" && issue.discriminator && path[path.length - 1] !== issue.discriminator) path.push(issue.discriminator);
+  return path;
+}
+
+/** Form path (`arrivals.switching.1.0`) -> first message, for every issue; the keys react-hook-form uses. */
+export function scenarioFieldErrors(issues: readonly z.core.$ZodIssue[]): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of issues) {
+    const path = issuePath(issue);
+    fields[path.length ? path.map(String).join(".") : "scenario"] ??= issue.message;
+  }
+  return fields;
+}
+
 /** Validates and fills defaults; throws ScenarioError with a one-line message naming the field. */
 export function parseScenario(json: unknown): Scenario {
-  const result = scenarioSchema.safeParse(json, { error: shortMessages });
+  const result = scenarioSchema.safeParse(json, { error: scenarioErrorMap });
   if (result.success) return result.data;
   const issue = result.error.issues[0];
-  // A discriminated union reports at the object; name the discriminator field itself.
-  let path = [...issue.path];
-  if (issue.code === "invalid_union" && issue.discriminator && path[path.length - 1] !== issue.discriminator) path = [...path, issue.discriminator];
-  const where = formatPath(path);
+  const where = formatPath(issuePath(issue));
   const more = result.error.issues.length > 1 ? ` (and ${result.error.issues.length - 1} more)` : "";
-  throw new ScenarioError(`${where}: ${issue.message}${more}`, where);
+  throw new ScenarioError(`${where}: ${issue.message}${more}`, where, scenarioFieldErrors(result.error.issues));
 }
 
 /** Mean offered traffic in erlangs at the group under study's entry, before retrials. */

@@ -25,14 +25,16 @@ export interface EngsetResult {
   meanHolding: number;
   /** β = γ h, the offered traffic per idle source */
   offeredPerIdleSource: number;
-  /** S β / (1 + β): the traffic the sources would carry with no blocking */
-  offeredTraffic: number;
+  /** intended traffic S β / (1 + β): what the sources would carry with no blocking */
+  intendedTraffic: number;
+  /** attempt-based offered traffic: call attempts of idle sources (blocked ones included) × mean holding */
+  attemptTraffic: number;
   carriedTraffic: number;
   /** time congestion E: fraction of time all N servers are busy */
   timeCongestion: number;
   /** call congestion B: fraction of call attempts blocked (= time congestion with S - 1 sources) */
   callCongestion: number;
-  /** traffic congestion C = (offered - carried) / offered */
+  /** traffic congestion C = (intended − carried) / intended */
   trafficCongestion: number;
   callAttemptRate: number;
 }
@@ -88,7 +90,8 @@ export function engset(input: EngsetInput): EngsetResult {
       idleRate,
       meanHolding,
       offeredPerIdleSource: beta,
-      offeredTraffic: r.offeredTraffic,
+      intendedTraffic: r.offeredTraffic,
+      attemptTraffic: beta * r.attempts,
       carriedTraffic: r.carried,
       timeCongestion: r.timeCongestion,
       callCongestion: r.callCongestion,
@@ -103,63 +106,151 @@ export const engsetIdleRateInputSchema = z
   .object({
     sources: sourcesField,
     servers: engsetServersField,
-    offeredPerSource: z
+    intendedPerSource: z
       .number()
       .gt(0)
       .lt(1)
-      .describe("offered traffic per source α in erlangs, 0 < α < 1 (call attempt rate × mean holding, attempts counted while idle)"),
+      .optional()
+      .describe("intended traffic per source in erlangs, 0 < a < 1: what a source would carry with no blocking, β/(1 + β) (the engset operation's intendedTraffic / S)"),
+    attemptPerSource: z
+      .number()
+      .gt(0)
+      .lt(1)
+      .optional()
+      .describe("attempt-based offered traffic per source in erlangs, 0 < α < 1: call attempts (blocked ones included) × mean holding / S, attempts made only while idle"),
     meanHolding: meanHoldingField,
-    tolerance: z.number().gt(0).max(1e-3).default(1e-13).describe("relative change in β that ends the iteration"),
-    maxIterations: z.number().int().min(1).max(1_000_000).default(100_000).describe("iteration cap; not converging throws"),
+    tolerance: z.number().gt(0).max(1e-3).default(1e-13).describe("relative error bound on β = idle rate × mean holding at which the search stops"),
   })
-  .describe("inverse Engset: idle-source call rate γ from the offered traffic per source α");
+  .superRefine((v, ctx) => {
+    if ((v.intendedPerSource === undefined) === (v.attemptPerSource === undefined))
+      ctx.addIssue({ code: "custom", path: ["attemptPerSource"], message: "give exactly one of intendedPerSource or attemptPerSource" });
+  })
+  .describe("inverse Engset: idle-source call rate from the intended or the attempt-based offered traffic per source");
 export type EngsetIdleRateInput = z.input<typeof engsetIdleRateInputSchema>;
 
 export interface EngsetIdleRateResult extends EngsetResult {
-  offeredPerSource: number;
+  /** which traffic was given: "intended" or "attempt-based" */
+  given: "intended" | "attempt-based";
+  /** bound on the relative error of β (hence of the idle rate) when the search stopped */
+  errorBound: number;
   iterations: number;
-  converged: true;
 }
 
 /**
- * Fixed point β = α / (1 - α (1 - C)) (Iversen, "Teletraffic Engineering Handbook (ITU-D, 2005)",
- * ITU-D handbook, Engset chapter), i.e. β = α / (1 - y(β)) with y the carried traffic per source.
- * From β₀ = α/(1-α) the iterates decrease monotonically towards the root (y is increasing in β),
- * so every α in (0, 1) is feasible; the iteration cap only guards against very slow convergence.
+ * Intended traffic a = β/(1 + β) inverts in closed form. Attempt-based traffic α = β (S − Y(β))/S
+ * (attempts of idle sources × h per source; Iversen, handbook, Engset chapter, where it appears as
+ * the fixed point β = α / (1 − α(1 − C))) is increasing in β, so β is found by a bracketed root in
+ * ln β (Illinois with bisection safeguard) that stops when the bracket, a guaranteed error bound,
+ * is below the tolerance. Each step costs O(min(N, S)); about 60 steps in the worst case.
  */
 export function engsetIdleRateForOfferedTraffic(input: EngsetIdleRateInput): EngsetIdleRateResult {
-  const { sources, servers, offeredPerSource: alpha, meanHolding, tolerance, maxIterations } = parseInput(engsetIdleRateInputSchema, input);
-  let beta = alpha / (1 - alpha);
+  const { sources, servers, intendedPerSource, attemptPerSource, meanHolding, tolerance } = parseInput(engsetIdleRateInputSchema, input);
+  let beta: number;
   let iterations = 0;
-  let converged = false;
-  while (iterations < maxIterations) {
-    iterations++;
-    const r = engsetFromBeta(sources, servers, beta);
-    const next = alpha / (1 - r.carried / sources);
-    const change = Math.abs(next - beta);
-    beta = next;
-    if (change <= tolerance * beta) {
-      converged = true;
-      break;
+  let errorBound = 0;
+  if (intendedPerSource !== undefined) {
+    beta = intendedPerSource / (1 - intendedPerSource);
+  } else {
+    const alpha = attemptPerSource!;
+    const attemptTraffic = (b: number) => (b * (sources - engsetFromBeta(sources, servers, b).carried)) / sources;
+    // α(β) <= β (no blocking lowers it) and α(β) >= β/(1 + β) (with N >= S the two are equal), so
+    // β lies in [α, α/(1 − α)]
+    let lo = Math.log(alpha);
+    let hi = Math.log(alpha / (1 - alpha));
+    const f = (u: number) => Math.log(attemptTraffic(Math.exp(u))) - Math.log(alpha);
+    let fLo = f(lo);
+    let fHi = f(hi);
+    iterations = 2;
+    if (fLo >= 0) hi = lo;
+    else if (fHi <= 0) lo = hi;
+    else {
+      // Illinois false position with bisection whenever the bracket does not halve
+      let side = 0;
+      while (hi - lo > tolerance && iterations < 400) {
+        const width = hi - lo;
+        let u = lo - (fLo * (hi - lo)) / (fHi - fLo);
+        if (!(u > lo && u < hi)) u = 0.5 * (lo + hi);
+        const fu = f(u);
+        iterations++;
+        if (fu === 0) {
+          lo = hi = u;
+          break;
+        }
+        if (fu < 0) {
+          lo = u;
+          fLo = fu;
+          if (side === -1) fHi /= 2;
+          side = -1;
+        } else {
+          hi = u;
+          fHi = fu;
+          if (side === 1) fLo /= 2;
+          side = 1;
+        }
+        if (hi - lo > 0.5 * width) {
+          const m = 0.5 * (lo + hi);
+          const fm = f(m);
+          iterations++;
+          if (fm < 0) {
+            lo = m;
+            fLo = fm;
+          } else {
+            hi = m;
+            fHi = fm;
+          }
+          side = 0;
+        }
+      }
+      if (hi - lo > tolerance) throw new TeletrafficConvergenceError(`engsetIdleRateForOfferedTraffic: bracket still ${hi - lo} wide after ${iterations} steps`, iterations);
     }
-  }
-  if (!converged) {
-    throw new TeletrafficConvergenceError(
-      `engsetIdleRateForOfferedTraffic: fixed point did not converge within ${maxIterations} iterations (last β = ${beta})`,
-      iterations,
-    );
+    // the root lies in [e^lo, e^hi]: relative error of either end at most e^(hi − lo) − 1
+    errorBound = Math.expm1(hi - lo);
+    beta = Math.exp(0.5 * (lo + hi));
   }
   const result = engset({ sources, servers, idleRate: beta / meanHolding, meanHolding });
   return {
     ...result,
-    method: "Engset inverse: fixed point β = α / (1 - α (1 - C)), then exact Engset",
-    // here the offered traffic is the given S α, and traffic congestion is measured against it. At the
-    // fixed point S α = β (S − Y), so (S α − Y)/(S α) = (S − N) E / (S − Y), which is the call
-    // congestion; taken from it rather than from the difference 1 − Y/(S α), which cancels when C is small
-    offeredTraffic: sources * alpha,
-    trafficCongestion: result.callCongestion,
-    offeredPerSource: alpha,
+    method:
+      intendedPerSource !== undefined
+        ? "Engset inverse from intended traffic: β = a / (1 − a), then exact Engset"
+        : "Engset inverse from attempt-based traffic: bracketed root in ln β with a guaranteed error bound, then exact Engset",
+    given: intendedPerSource !== undefined ? "intended" : "attempt-based",
+    errorBound,
     iterations,
-    converged: true,
   };
+}
+
+export const engsetServersInputSchema = z
+  .object({
+    sources: sourcesField,
+    idleRate: z.number().gt(0).max(1e12).describe("call rate of one idle source γ"),
+    meanHolding: meanHoldingField,
+    target: z.number().gt(0).lt(1).describe("target congestion, strictly between 0 and 1"),
+    measure: z.enum(["time", "call"]).default("call").describe('"time": time congestion E; "call": call congestion B (E with S − 1 sources)'),
+  })
+  .describe("Engset sizing: smallest N meeting a target time or call congestion");
+export type EngsetServersInput = z.input<typeof engsetServersInputSchema>;
+
+/**
+ * Smallest N with E_S(N) <= target (time) or E_{S−1}(N) <= target (call), walking the Engset
+ * recursion E(n) = (S − n + 1) β E(n − 1) / (n + (S − n + 1) β E(n − 1)), E(0) = 1 (Iversen,
+ * handbook, Engset chapter) in log form, so targets far below the float range are met exactly.
+ */
+export function engsetServers(input: EngsetServersInput): EngsetResult & { target: number; measure: string; congestionOneLess: number } {
+  const { sources, idleRate, meanHolding, target, measure } = parseInput(engsetServersInputSchema, input);
+  const beta = idleRate * meanHolding;
+  const s = measure === "time" ? sources : sources - 1;
+  const logTarget = Math.log(target);
+  let logE = 0;
+  let previous = 1;
+  let n = 0;
+  // E(S' + 1) = 0 (a group larger than the sources is never all busy), so the walk ends by n = S' + 1
+  while (logE > logTarget) {
+    previous = Math.exp(logE);
+    n += 1;
+    const x = Math.log((s - n + 1) * beta) + logE; // ln((S' − n + 1) β E(n − 1)); −Infinity at n = S' + 1
+    logE = x === -Infinity ? -Infinity : x - Math.log(n + Math.exp(x));
+  }
+  const result = engset({ sources, servers: n, idleRate, meanHolding });
+  return { ...result, method: `smallest N by walking the Engset recursion; ${result.method}`, target, measure, congestionOneLess: previous };
 }

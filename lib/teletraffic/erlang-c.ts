@@ -138,3 +138,45 @@ export function finiteQueue(input: FiniteQueueInput): FiniteQueueResult {
     "finiteQueue",
   );
 }
+
+export const erlangCServersInputSchema = z
+  .object({
+    traffic: z.number().gt(0).max(MAX_SERVERS - 1).describe("offered traffic A in erlangs"),
+    target: z.number().gt(0).describe("target: a probability in (0, 1) for waiting-probability and wait-beyond-limit, a time for mean-wait"),
+    measure: z
+      .enum(["waiting-probability", "mean-wait", "wait-beyond-limit"])
+      .default("waiting-probability")
+      .describe('"waiting-probability": C(N, A) <= target; "mean-wait": mean wait <= target; "wait-beyond-limit": P(W > waitLimit) <= target'),
+    waitLimit: z.number().min(0).max(1e15).optional().describe("waiting-time limit t for wait-beyond-limit"),
+    meanHolding: meanHoldingField,
+  })
+  .superRefine((v, ctx) => {
+    if (v.measure !== "mean-wait" && !(v.target < 1)) ctx.addIssue({ code: "custom", path: ["target"], message: "must be below 1 for a probability" });
+    if (v.measure === "wait-beyond-limit" && v.waitLimit === undefined) ctx.addIssue({ code: "custom", path: ["waitLimit"], message: "required with wait-beyond-limit" });
+  })
+  .describe("Erlang C sizing: smallest N meeting a target probability of waiting, mean wait, or probability of waiting longer than t");
+export type ErlangCServersInput = z.input<typeof erlangCServersInputSchema>;
+
+/**
+ * Smallest integer N > A meeting the target. C(N, A), the mean wait and P(W > t) all decrease in N
+ * (Erlang 1917; monotonicity e.g. Iversen, handbook, delay chapter), so the Erlang B recursion is
+ * walked up once and C = N B / (N − A (1 − B)) evaluated at each N > A: O(N) in all.
+ */
+export function erlangCServers(input: ErlangCServersInput): ErlangCResult & { target: number; measure: string; valueOneLess: number } {
+  const { traffic: a, target, measure, waitLimit, meanHolding: h } = parseInput(erlangCServersInputSchema, input);
+  let b = 1;
+  let previous = Infinity;
+  for (let n = 1; n <= MAX_SERVERS; n++) {
+    const ab = a * b;
+    b = ab / (n + ab);
+    if (n <= a) continue;
+    const c = (n * b) / (n - a * (1 - b));
+    const value = measure === "waiting-probability" ? c : measure === "mean-wait" ? (c * h) / (n - a) : c * Math.exp((-(n - a) * waitLimit!) / h);
+    if (value <= target) {
+      const result = erlangC({ servers: n, traffic: a, meanHolding: h, waitLimit });
+      return { ...result, method: `smallest N by walking the Erlang B recursion; ${result.method}`, target, measure, valueOneLess: previous };
+    }
+    previous = value;
+  }
+  throw inputError("target", `needs more than ${MAX_SERVERS} servers`);
+}

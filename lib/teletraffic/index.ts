@@ -56,6 +56,8 @@ export {
 export {
   erlangC,
   erlangCInputSchema,
+  erlangCServers,
+  erlangCServersInputSchema,
   finiteQueue,
   finiteQueueInputSchema,
   MAX_QUEUE_POSITIONS,
@@ -69,6 +71,8 @@ export {
   engsetIdleRateForOfferedTraffic,
   engsetIdleRateInputSchema,
   engsetInputSchema,
+  engsetServers,
+  engsetServersInputSchema,
   MAX_SOURCES,
   type EngsetIdleRateInput,
   type EngsetIdleRateResult,
@@ -94,18 +98,80 @@ export {
 } from "./overflow";
 export { extendedErlangB, extendedErlangBInputSchema, type ExtendedErlangBInput, type ExtendedErlangBResult } from "./retrials";
 export {
-  balancedHyperexponential,
-  balancedHyperexponentialInputSchema,
   interarrivalLawSchema,
   renewalLossInputSchema,
   renewalLossSystem,
+  renewalPeakedness,
+  renewalWork,
+  INTERACTIVE_RENEWAL_WORK,
   MAX_RENEWAL_SERVERS,
   type InterarrivalLaw,
   type RenewalLossInput,
   type RenewalLossResult,
 } from "./renewal";
-export { mmppLossInputSchema, mmppLossSystem, MAX_MMPP_STATES, type MmppLossInput, type MmppLossResult } from "./mmpp";
-export { batchLossInputSchema, batchPoissonLossSystem, MAX_BATCH_SERVERS, type BatchLossInput, type BatchLossResult } from "./batch";
+export { mmppLossInputSchema, mmppLossSystem, MAX_MMPP_STATES, MAX_MMPP_PHASES, INTERACTIVE_MMPP_WORK, type MmppLossInput, type MmppLossResult } from "./mmpp";
+export {
+  batchLossInputSchema,
+  batchLossSystem,
+  batchPoissonLossSystem,
+  batchWork,
+  INTERACTIVE_BATCH_WORK,
+  MAX_BATCH_SERVERS,
+  type BatchLossInput,
+  type BatchLossResult,
+} from "./batch";
+export {
+  balancedHyperexponential,
+  batchMean,
+  batchMoments,
+  batchSizeSchema,
+  hyperexponentialBranches,
+  lawMean,
+  lawSchema,
+  LAW_LIMITS,
+  weibullParameters,
+  weibullShapeForCv,
+  type BatchSizeLaw,
+  type Law,
+} from "./laws";
+export { transformOf, type TransformLogs } from "./transform";
+export { lnGamma } from "./numeric";
+export {
+  engsetQueue,
+  engsetQueueInputSchema,
+  patienceQueue,
+  patienceQueueInputSchema,
+  retrialLossInputSchema,
+  retrialLossSystem,
+  retrialServers,
+  retrialServersInputSchema,
+  INTERACTIVE_MARKOV_STATES,
+  MAX_MARKOV_STATES,
+  TRUNCATION_BOUND,
+  type MarkovSystemResult,
+  type RetrialLossInput,
+  type RetrialLossResult,
+} from "./markov-systems";
+export { markovSystemStates, solveMarkovSystem, type MarkovSystemModel, type MarkovSystemMeasures } from "./retrial-chain";
+export {
+  batchPeakedness,
+  mmppOfferedMoments,
+  peakedStreamBlocking,
+  peakednessInputSchema,
+  stationaryOfGenerator,
+  streamPeakedness,
+  type PeakednessInput,
+  type PeakednessResult,
+} from "./peakedness";
+export {
+  timeVaryingInputSchema,
+  timeVaryingLoss,
+  timeVaryingWork,
+  INTERACTIVE_TIME_VARYING_WORK,
+  type TimeVaryingInput,
+  type TimeVaryingResult,
+  type TimeVaryingSegment,
+} from "./time-varying";
 export {
   overflowLossInputSchema,
   overflowLossSystem,

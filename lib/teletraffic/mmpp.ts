@@ -3,21 +3,37 @@ import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { phaseStationary, solveEnvironmentLossChain } from "./qbd";
 
 export const MAX_MMPP_STATES = 200_000;
+/** The simulation engine's limit too (scenario LIMITS.phases). */
+export const MAX_MMPP_PHASES = 16;
+/** (N + 1) × phases³ above which an evaluation is no longer interactive (about 100 ms). */
+export const INTERACTIVE_MMPP_WORK = 20_000_000;
+
+/** Phase rates and switching matrix of an MMPP (shape checked by the operations that use it). */
+export const mmppPhasesSchema = z.object({
+  rates: z.array(z.number().min(0).max(1e9)).min(1).max(MAX_MMPP_PHASES).describe(`Poisson arrival rate in each phase (1 to ${MAX_MMPP_PHASES} phases; on-off is [onRate, 0])`),
+  switching: z
+    .array(z.array(z.number().min(0).max(1e9)))
+    .describe("switching[i][j] = rate of changing from phase i to phase j (diagonal ignored); must be irreducible"),
+});
+
+/** Adds an issue and returns false unless switching is k × k for k rates. */
+export function mmppShapeIsSquare(v: { rates: number[]; switching: number[][] }, ctx: z.RefinementCtx): boolean {
+  const k = v.rates.length;
+  if (v.switching.length === k && v.switching.every((row) => row.length === k)) return true;
+  ctx.addIssue({ code: "custom", path: ["switching"], message: `must be a ${k}×${k} matrix (one row and column per phase)` });
+  return false;
+}
 
 export const mmppLossInputSchema = z
   .object({
     servers: z.number().int().min(0).max(MAX_MMPP_STATES - 1).describe(`integer number of servers N; phases × (N + 1) <= ${MAX_MMPP_STATES}`),
-    rates: z.array(z.number().min(0).max(1e9)).min(1).max(4).describe("Poisson arrival rate in each phase (1 to 4 phases; on-off is [onRate, 0])"),
-    switching: z
-      .array(z.array(z.number().min(0).max(1e9)))
-      .describe("switching[i][j] = rate of changing from phase i to phase j (diagonal ignored); must be irreducible"),
+    ...mmppPhasesSchema.shape,
     meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time, default 1"),
   })
   .superRefine((v, ctx) => {
     const k = v.rates.length;
-    if (v.switching.length !== k || v.switching.some((row) => row.length !== k)) {
-      ctx.addIssue({ code: "custom", path: ["switching"], message: `must be a ${k}×${k} matrix (one row and column per phase)` });
-    } else if (k * (v.servers + 1) > MAX_MMPP_STATES) {
+    if (!mmppShapeIsSquare(v, ctx)) return;
+    if (k * (v.servers + 1) > MAX_MMPP_STATES) {
       ctx.addIssue({ code: "custom", path: ["servers"], message: `phases × (N + 1) = ${k * (v.servers + 1)} exceeds ${MAX_MMPP_STATES} states` });
     }
   })

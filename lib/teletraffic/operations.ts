@@ -8,8 +8,8 @@ import {
   targetField,
   trafficField,
 } from "./erlang-b";
-import { erlangC, erlangCInputSchema, finiteQueue, finiteQueueInputSchema } from "./erlang-c";
-import { engset, engsetIdleRateForOfferedTraffic, engsetIdleRateInputSchema, engsetInputSchema } from "./engset";
+import { erlangC, erlangCInputSchema, erlangCServers, erlangCServersInputSchema, finiteQueue, finiteQueueInputSchema } from "./erlang-c";
+import { engset, engsetIdleRateForOfferedTraffic, engsetIdleRateInputSchema, engsetInputSchema, engsetServers, engsetServersInputSchema } from "./engset";
 import {
   equivalentRandom,
   equivalentRandomInputSchema,
@@ -21,7 +21,23 @@ import {
 import { extendedErlangB, extendedErlangBInputSchema } from "./retrials";
 import { renewalLossInputSchema, renewalLossSystem } from "./renewal";
 import { mmppLossInputSchema, mmppLossSystem } from "./mmpp";
-import { batchLossInputSchema, batchPoissonLossSystem } from "./batch";
+import { batchLossInputSchema, batchLossSystem, INTERACTIVE_BATCH_WORK, MAX_BATCH_WORK } from "./batch";
+import {
+  engsetQueue,
+  engsetQueueInputSchema,
+  INTERACTIVE_MARKOV_STATES,
+  MAX_MARKOV_STATES,
+  patienceQueue,
+  patienceQueueInputSchema,
+  retrialLossInputSchema,
+  retrialLossSystem,
+  retrialServers,
+  retrialServersInputSchema,
+} from "./markov-systems";
+import { peakednessInputSchema, streamPeakedness } from "./peakedness";
+import { INTERACTIVE_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
+import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
+import { INTERACTIVE_MMPP_WORK } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
 import { kaufmanRoberts, kaufmanRobertsInputSchema } from "./multi-rate";
 
@@ -57,11 +73,15 @@ export interface AnalyticOperation {
   summary: string;
   input: z.ZodType;
   evaluate(input: unknown): Record<string, unknown>;
+  /** Size limits: what is answered interactively (about 100 ms) and what only as a background job. */
+  limits?: string;
 }
 
-function operation<S extends z.ZodType>(summary: string, input: S, run: (value: z.input<S>) => object): AnalyticOperation {
-  return { summary, input, evaluate: (value) => ({ ...run(parseInput(input, value) as z.input<S>) }) };
+function operation<S extends z.ZodType>(summary: string, input: S, run: (value: z.input<S>) => object, limits?: string): AnalyticOperation {
+  return { summary, input, evaluate: (value) => ({ ...run(parseInput(input, value) as z.input<S>) }), ...(limits ? { limits } : {}) };
 }
+
+const markovLimits = `interactive up to about ${INTERACTIVE_MARKOV_STATES} states (orbit levels × (N + Q + 1)); at most ${MAX_MARKOV_STATES}`;
 
 /** Every analytic operation of the API and CLI, keyed by its kebab-case name. */
 export const analyticOperations = {
@@ -72,15 +92,43 @@ export const analyticOperations = {
   },
   "erlang-c": operation("Erlang C delay system: probability of waiting, mean wait, P(W <= t)", erlangCInputSchema, erlangC),
   "finite-queue": operation("M/M/N/N+Q: loss with a finite waiting room", finiteQueueInputSchema, finiteQueue),
-  engset: operation("Engset finite-source loss: time, call and traffic congestion", engsetInputSchema, engset),
-  "engset-idle-rate": operation("Engset inverse: idle-source call rate from offered traffic per source", engsetIdleRateInputSchema, engsetIdleRateForOfferedTraffic),
+  engset: operation("Engset finite-source loss: time, call and traffic congestion; intended and attempt-based offered traffic", engsetInputSchema, engset),
+  "engset-idle-rate": operation("Engset inverse: idle-source call rate from the intended or the attempt-based offered traffic per source", engsetIdleRateInputSchema, engsetIdleRateForOfferedTraffic),
   "overflow-moments": operation("Riordan mean, variance and peakedness of overflow traffic", overflowMomentsInputSchema, overflowMoments),
   "equivalent-random": operation("Wilkinson equivalent random: A*, N* and blocking of an (M, V) stream", equivalentRandomInputSchema, equivalentRandom),
   hayward: operation("Hayward approximation for peaked or smooth traffic", haywardInputSchema, haywardBlocking),
-  "extended-erlang-b": operation("extended Erlang B with repeated attempts (recall factor)", extendedErlangBInputSchema, extendedErlangB),
-  "renewal-loss": operation("GI/M/N/N with renewal arrivals (Palm–Takács): call and time congestion", renewalLossInputSchema, renewalLossSystem),
-  "mmpp-loss": operation("Markov-modulated Poisson arrivals on N servers: exact call and time congestion", mmppLossInputSchema, mmppLossSystem),
-  "batch-loss": operation("batch Poisson arrivals (geometric batches): exact call and time congestion", batchLossInputSchema, batchPoissonLossSystem),
+  "extended-erlang-b": operation("extended Erlang B with repeated attempts (persistence): the fixed-point approximation", extendedErlangBInputSchema, extendedErlangB),
+  "retrial-loss": operation(
+    "exact retrial model: first-attempt blocking, loss, attempts per call, mean orbit (Poisson or finite sources, optional waiting room and patience)",
+    retrialLossInputSchema,
+    retrialLossSystem,
+    markovLimits,
+  ),
+  "retrial-servers": operation("smallest N for a target loss (or first-attempt blocking) with retrials, exact model", retrialServersInputSchema, retrialServers, `each of the O(log N) evaluations as retrial-loss: ${markovLimits}`),
+  "patience-queue": operation("M/M/N/N+Q with exponential patience: loss, waiting, mean wait, abandonment", patienceQueueInputSchema, patienceQueue, markovLimits),
+  "engset-queue": operation("Engset with waiting positions (and optional patience): exact finite-source loss–delay system", engsetQueueInputSchema, engsetQueue, markovLimits),
+  "erlang-c-servers": operation("Erlang C sizing: smallest N for a target probability of waiting, mean wait, or P(W > t)", erlangCServersInputSchema, erlangCServers, "O(N); N <= 10^7"),
+  "engset-servers": operation("Engset sizing: smallest N for a target time or call congestion", engsetServersInputSchema, engsetServers, "O(N); S <= 10^7"),
+  "renewal-loss": operation(
+    "GI/M/N/N with renewal arrivals (Palm–Takács), any interarrival law: call and time congestion, peakedness",
+    renewalLossInputSchema,
+    renewalLossSystem,
+    `interactive up to N × transform cost ${INTERACTIVE_RENEWAL_WORK} (closed forms cost 1, lognormal/Weibull/Pareto 400, empirical one per sample); at most ${MAX_RENEWAL_WORK}`,
+  ),
+  "mmpp-loss": operation("Markov-modulated Poisson arrivals (1–16 phases) on N servers: exact call and time congestion", mmppLossInputSchema, mmppLossSystem, `interactive up to (N + 1) × phases³ = ${INTERACTIVE_MMPP_WORK}; phases × (N + 1) <= 200 000`),
+  "batch-loss": operation(
+    "batch Poisson arrivals, any batch-size law, partial or all-or-nothing, optional waiting room: exact per call and per batch",
+    batchLossInputSchema,
+    batchLossSystem,
+    `geometric O(N + Q); other laws interactive up to (N + Q + 1) × largest batch = ${INTERACTIVE_BATCH_WORK}, at most ${MAX_BATCH_WORK}`,
+  ),
+  peakedness: operation("mean, variance and peakedness of a renewal, MMPP or batch stream; equivalent random and Hayward on N servers", peakednessInputSchema, streamPeakedness),
+  "time-varying-loss": operation(
+    "time-varying load: pointwise stationary and modified offered load blocking per segment and over the cycle",
+    timeVaryingInputSchema,
+    timeVaryingLoss,
+    `interactive up to segments × nodes × (N + 1) = ${INTERACTIVE_TIME_VARYING_WORK}`,
+  ),
   "overflow-loss": operation("exact overflow network beside equivalent random and Hayward", overflowLossInputSchema, overflowLossSystem),
   "multi-rate": operation("multi-rate loss link, Kaufman–Roberts recursion: per-class blocking", kaufmanRobertsInputSchema, kaufmanRoberts),
 } satisfies Record<string, AnalyticOperation>;

@@ -5,7 +5,7 @@ import { phaseStationary } from "./qbd";
 import { renewalPeakedness } from "./renewal";
 import { equivalentRandomUnchecked, MAX_STREAM_MEAN, MAX_STREAM_VARIANCE } from "./overflow";
 import { erlangBUnchecked } from "./erlang-b";
-import { mmppPhasesSchema } from "./mmpp";
+import { mmppPhasesSchema, mmppShapeIsSquare } from "./mmpp";
 
 /** Stationary law of a small irreducible generator given by its off-diagonal rates (GTH), as a plain array. */
 export function stationaryOfGenerator(switching: number[][]): number[] {
@@ -71,7 +71,7 @@ export const peakednessInputSchema = z
     stream: z
       .discriminatedUnion("process", [
         z.object({ process: z.literal("renewal"), interarrival: lawSchema }),
-        z.object({ process: z.literal("mmpp"), ...mmppPhasesSchema.shape }),
+        z.object({ process: z.literal("mmpp"), ...mmppPhasesSchema.shape }).superRefine((v, ctx) => void mmppShapeIsSquare(v, ctx)),
         z.object({ process: z.literal("batch"), rate: z.number().gt(0).max(1e9).describe("batch arrival rate"), batchSize: batchSizeSchema }),
       ])
       .describe("the offered stream: renewal {interarrival}, mmpp {rates, switching} or batch {rate, batchSize}"),

@@ -10,22 +10,22 @@ export const extendedErlangBInputSchema = z
   .object({
     servers: serversField,
     traffic: z.number().gt(0).max(1e7).describe("fresh (first-attempt) offered traffic A in erlangs, > 0"),
-    recallFactor: z.number().min(0).lt(1).describe("recall factor r (persistence): probability a blocked call tries again, 0 <= r < 1"),
+    persistence: z.number().min(0).lt(1).describe("persistence r: probability a blocked call tries again, 0 <= r < 1 (the scenario file's retrials.persistence)"),
     tolerance: z.number().gt(0).max(1e-3).default(1e-12).describe("relative change of the offered total that ends the iteration"),
     maxIterations: z.number().int().min(1).max(10_000_000).default(10_000).describe("cap on fixed-point steps plus root-solver steps"),
   })
-  .describe("extended Erlang B: blocked calls return (after a long enough delay) with probability r");
+  .describe("extended Erlang B: blocked calls return (after a long enough delay) with probability r; an approximation (compare retrial-loss, the exact model)");
 export type ExtendedErlangBInput = z.input<typeof extendedErlangBInputSchema>;
 
 export interface ExtendedErlangBResult {
   method: string;
   servers: number;
   traffic: number;
-  recallFactor: number;
+  persistence: number;
   blocking: number;
   offeredTotal: number;
   carriedTraffic: number;
-  recallTraffic: number;
+  retryTraffic: number;
   lostTraffic: number;
   probabilityFreshCallLost: number;
   iterations: number;
@@ -38,7 +38,7 @@ export interface ExtendedErlangBResult {
  * "converged" reports whether the tolerance was met within maxIterations; the values are the last iterate.
  */
 export function extendedErlangB(input: ExtendedErlangBInput): ExtendedErlangBResult {
-  const { servers, traffic, recallFactor: r, tolerance, maxIterations } = parseInput(extendedErlangBInputSchema, input);
+  const { servers, traffic, persistence: r, tolerance, maxIterations } = parseInput(extendedErlangBInputSchema, input);
   let offered = traffic;
   let blocking = erlangBUnchecked(servers, offered);
   let iterations = 0;
@@ -75,11 +75,11 @@ export function extendedErlangB(input: ExtendedErlangBInput): ExtendedErlangBRes
         : "extended Erlang B (repeated attempts, fixed-point iteration)",
       servers,
       traffic,
-      recallFactor: r,
+      persistence: r,
       blocking,
       offeredTotal: offered,
       carriedTraffic: offered * (1 - blocking),
-      recallTraffic: r * offered * blocking,
+      retryTraffic: r * offered * blocking,
       lostTraffic: lost,
       probabilityFreshCallLost: lost / traffic,
       iterations,

@@ -7,7 +7,7 @@ test("health reports the database and the queue", async ({ request }) => {
   const body = await response.json();
   expect(body.database.ok).toBe(true);
   expect(body.queue.ok).toBe(true);
-  expect(body.queue.queues.map((q: { name: string }) => q.name)).toEqual(expect.arrayContaining(["simulation-run", "sweep"]));
+  expect(body.queue.queues.map((q: { name: string }) => q.name)).toEqual(expect.arrayContaining(["run-start", "run-chunk", "sweep-start"]));
 });
 
 test("the scenario JSON Schema is public; the analytic API needs a signed-in user", async ({ request }) => {

@@ -114,7 +114,7 @@ describe("JSON Schema of the scenario file", () => {
     const interval = { estimate: 0.1, standardError: 0.01, halfWidth: 0.02, ciLow: 0.08, ciHigh: 0.12 };
     const result = {
       seed: 1, confidence: 0.95, replications: 2, calls: 10, events: 20, offeredTraffic: 1,
-      callCongestion: interval, timeCongestion: interval, carriedTraffic: interval,
+      callCongestion: interval, callCongestionDirect: interval, timeCongestion: interval, carriedTraffic: interval,
       occupancy: [0.5, 0.5], warmupCalls: { mean: 0, min: 0, max: 0 }, warmupTime: { mean: 0, min: 0, max: 0 },
       references: [{ method: "Erlang B", assumptions: "x", exact: true, callCongestion: 0.5 }],
       stopReason: "planned", perReplication: { callCongestion: [0.1, 0.1], timeCongestion: [0.1, 0.1], calls: [5, 5] }, warnings: [],

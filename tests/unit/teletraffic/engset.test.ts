@@ -67,18 +67,37 @@ describe("Engset inverse: idle-source rate from offered traffic per source (fixe
     [100, 30, 0.35],
     [12, 11, 0.9],
   ])("S = %i, N = %i, α = %f: the solution reproduces α = β × idle fraction", (s, n, alpha) => {
-    const r = engsetIdleRateForOfferedTraffic({ sources: s, servers: n, offeredPerSource: alpha });
-    expect(r.converged).toBe(true);
+    const r = engsetIdleRateForOfferedTraffic({ sources: s, servers: n, attemptPerSource: alpha });
+    expect(r.given).toBe("attempt-based");
+    expect(r.errorBound).toBeLessThanOrEqual(1.1e-13);
     expect(r.iterations).toBeGreaterThan(1);
     // offered traffic per source = call attempt rate per source × h
     expect(relativeError(r.callAttemptRate / s, alpha)).toBeLessThan(1e-10);
     expect(relativeError(r.offeredPerIdleSource * (1 - r.carriedTraffic / s), alpha)).toBeLessThan(1e-10);
   });
   it("without blocking (N >= S) β = α / (1 − α) exactly", () => {
-    const r = engsetIdleRateForOfferedTraffic({ sources: 4, servers: 4, offeredPerSource: 0.25 });
+    const r = engsetIdleRateForOfferedTraffic({ sources: 4, servers: 4, attemptPerSource: 0.25 });
     expect(r.offeredPerIdleSource).toBeCloseTo(1 / 3, 14);
   });
-  it("a too small iteration cap throws a convergence error instead of returning a result", () => {
-    expect(() => engsetIdleRateForOfferedTraffic({ sources: 30, servers: 10, offeredPerSource: 0.5, maxIterations: 2 })).toThrow(/did not converge/);
+  it("near saturation (S = 10^5, N = S − 1) it stops on its error bound and the answer reproduces α to that bound", () => {
+    // Before: the fixed point stopped on its step size and reported convergence 5e-9 away from the root.
+    const s = 100_000;
+    const alpha = 0.99;
+    const r = engsetIdleRateForOfferedTraffic({ sources: s, servers: s - 1, attemptPerSource: alpha });
+    expect(r.errorBound).toBeLessThanOrEqual(1.1e-13);
+    expect(r.iterations).toBeLessThan(200);
+    // independent check by the definition α = β (1 − Y/S), Y from the exact Engset distribution
+    const check = engset({ sources: s, servers: s - 1, idleRate: r.idleRate });
+    expect(relativeError(check.offeredPerIdleSource * (1 - check.carriedTraffic / s), alpha)).toBeLessThan(1e-12);
+  });
+  it("intended traffic per source inverts in closed form: β = a / (1 − a), and engset reports a × S back as intended traffic", () => {
+    const r = engsetIdleRateForOfferedTraffic({ sources: 30, servers: 10, intendedPerSource: 0.4 });
+    expect(r.given).toBe("intended");
+    expect(r.offeredPerIdleSource).toBeCloseTo(0.4 / 0.6, 14);
+    expect(relativeError(engset({ sources: 30, servers: 10, idleRate: r.idleRate }).intendedTraffic, 12)).toBeLessThan(1e-14);
+  });
+  it("exactly one of the two traffics must be given", () => {
+    expect(() => engsetIdleRateForOfferedTraffic({ sources: 30, servers: 10 })).toThrow(/attemptPerSource/);
+    expect(() => engsetIdleRateForOfferedTraffic({ sources: 30, servers: 10, intendedPerSource: 0.1, attemptPerSource: 0.1 })).toThrow(/exactly one/);
   });
 });

@@ -153,7 +153,7 @@ describe("exact overflow network beside ER and Hayward (exact CTMC; the comparis
 
 describe("extended Erlang B with repeated attempts (Jewett & Shrago's recall model, from memory)", () => {
   it("r = 0 is Erlang B", () => {
-    const r = extendedErlangB({ servers: 10, traffic: 8, recallFactor: 0 });
+    const r = extendedErlangB({ servers: 10, traffic: 8, persistence: 0 });
     expect(r.blocking).toBe(erlangB(10, 8));
     expect(r.offeredTotal).toBe(8);
     expect(r.converged).toBe(true);
@@ -161,7 +161,7 @@ describe("extended Erlang B with repeated attempts (Jewett & Shrago's recall mod
   it("the result satisfies its fixed point A_tot = A + r A_tot B(N, A_tot) and flows balance", () => {
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 100 }), fc.double({ min: 0.1, max: 1.5, noNaN: true }), fc.double({ min: 0, max: 0.95, noNaN: true }), (n, load, r) => {
-        const x = extendedErlangB({ servers: n, traffic: n * load, recallFactor: r });
+        const x = extendedErlangB({ servers: n, traffic: n * load, persistence: r });
         if (!x.converged) return false;
         const fixed = n * load + r * x.offeredTotal * erlangB(n, x.offeredTotal);
         // fresh = carried + finally lost
@@ -171,17 +171,17 @@ describe("extended Erlang B with repeated attempts (Jewett & Shrago's recall mod
     );
   });
   it("blocking grows with the recall factor", () => {
-    const b = [0, 0.3, 0.6, 0.9].map((r) => extendedErlangB({ servers: 20, traffic: 18, recallFactor: r }).blocking);
+    const b = [0, 0.3, 0.6, 0.9].map((r) => extendedErlangB({ servers: 20, traffic: 18, persistence: r }).blocking);
     for (let i = 1; i < b.length; i++) expect(b[i]).toBeGreaterThan(b[i - 1]);
   });
   it("heavy overload with r near 1 (slow contraction) is finished by the bracketed root and still meets the fixed point", () => {
-    const x = extendedErlangB({ servers: 100, traffic: 150, recallFactor: 0.999 });
+    const x = extendedErlangB({ servers: 100, traffic: 150, persistence: 0.999 });
     expect(x.converged).toBe(true);
     expect(relativeError(150 + 0.999 * x.offeredTotal * erlangB(100, x.offeredTotal), x.offeredTotal)).toBeLessThan(1e-10);
     expect(x.carriedTraffic).toBeLessThan(100);
   });
   it("an iteration cap that is too small is reported as not converged", () => {
-    const r = extendedErlangB({ servers: 20, traffic: 25, recallFactor: 0.9, maxIterations: 3 });
+    const r = extendedErlangB({ servers: 20, traffic: 25, persistence: 0.9, maxIterations: 3 });
     expect(r.converged).toBe(false);
     expect(r.iterations).toBe(3);
   });

@@ -1,6 +1,6 @@
 import { sql } from "drizzle-orm";
 import { getDatabase } from "@/db/client";
-import { allQueueNames } from "@/lib/jobs/contracts";
+import { getBoss, queueHealth } from "@/db/queue";
 
 export const dynamic = "force-dynamic";
 
@@ -17,23 +17,8 @@ export async function GET() {
   }
   let queue: Record<string, unknown>;
   try {
-    const installed = await db.execute<{ exists: boolean }>(sql`select to_regclass('pgboss.version') is not null as exists`);
-    if (!installed.rows[0]?.exists) {
-      queue = { ok: false, error: "the worker has not installed the pg-boss schema yet" };
-    } else {
-      const version = await db.execute<{ version: number }>(sql`select version from pgboss.version limit 1`);
-      const queues = await db.execute<{ name: string }>(sql`select name from pgboss.queue`);
-      const jobs = await db.execute<{ state: string; count: number }>(sql`select state::text, count(*)::int as count from pgboss.job group by state`);
-      const present = new Set(queues.rows.map((r) => r.name));
-      const missing = allQueueNames.filter((name) => !present.has(name));
-      queue = {
-        ok: missing.length === 0,
-        schemaVersion: version.rows[0]?.version ?? null,
-        queues: allQueueNames.map((name) => ({ name, created: present.has(name) })),
-        jobs: Object.fromEntries(jobs.rows.map((r) => [r.state, r.count])),
-        ...(missing.length ? { error: `queues not created yet: ${missing.join(", ")}` } : {}),
-      };
-    }
+    // Asked through pg-boss's API (getQueues, getQueueSize), never SQL on its tables.
+    queue = { ...(await queueHealth(await getBoss())) };
   } catch (error) {
     queue = { ok: false, error: (error as Error).message };
   }

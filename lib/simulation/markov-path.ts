@@ -1,0 +1,314 @@
+import { mmppOf, stationaryOfGenerator, type ReplicationOptions, type ReplicationStats } from "./engine";
+import { Random, SUBSTREAM } from "./random";
+import type { Scenario } from "./scenario";
+
+/**
+ * The Markov path: for a loss group whose model is a continuous-time Markov chain throughout
+ * (exponential holding; Poisson, MMPP/on-off or finite-source arrivals; no waiting line, no
+ * retrials), it simulates the embedded jump chain only and credits every visited state with its
+ * expected sojourn 1/q(state) instead of a drawn one: the discrete-time conversion of Hordijk,
+ * Iglehart & Schassberger (Adv. Appl. Prob. 8, 1976), whose time averages have a variance no
+ * larger than those of the continuous-time simulation (Fox & Glynn, Management Science 36, 1990).
+ * No event list and one uniform per jump.
+ *
+ * So the clock of this path is the sum of expected sojourns: time integrals (busyIntegral,
+ * occupancy, allBusyTime, intensities) are conditional expectations given the jump sequence, while
+ * counts of calls (calls, blockedFirst, admitted) are still counts of the simulated jumps. A
+ * horizon or warm-up time is measured on that clock. It is a different estimator of the same
+ * quantities as the event loops, not the same sample path; tests compare it statistically.
+ * Holding times are never drawn: `holdingSum` is `holdingDraws` x the mean, so a holding-time
+ * control variate has nothing to correct here.
+ */
+
+/** Why the Markov path does not apply to a scenario, or undefined when it does (the dispatch rule). */
+export function markovPathRefusal(scenario: Scenario): string | undefined {
+  if (scenario.holding.law !== "exponential") return "holding is not exponential";
+  if (scenario.waitingPositions > 0) return "a waiting line";
+  if (scenario.retrials && scenario.retrials.persistence > 0) return "repeated attempts";
+  const p = scenario.arrivals.process;
+  if (p !== "poisson" && p !== "mmpp" && p !== "on-off" && p !== "finite-source") return `${p} arrivals`;
+  return undefined;
+}
+
+const A_POISSON = 0;
+const A_MMPP = 1;
+const A_FINITE = 2;
+
+export class MarkovReplication {
+  readonly index: number;
+  done = false;
+  readonly path = "markov" as const;
+
+  private readonly servers: number;
+  private readonly serviceRate: number;
+  private readonly holdingMean: number;
+  private readonly arrivalKind: number;
+  private readonly rate: number = 0;
+  private readonly sources: number = 0;
+  private readonly idleRate: number = 0;
+  private readonly phaseRates: Float64Array = new Float64Array(0);
+  private readonly phaseOut: Float64Array = new Float64Array(0);
+  private readonly phaseJump: Float64Array[] = [];
+  private readonly rng: Random;
+
+  private t = 0;
+  private busy = 0;
+  private phase = 0;
+  private control = Infinity;
+  private measuring = false;
+  private callsSeen = 0;
+  private readonly warmupCallsTarget: number;
+  private readonly warmupTimeTarget: number;
+  private readonly callsTarget: number;
+  private readonly horizon: number;
+  private readonly traceEvery: number;
+  readonly traceTime: number[] = [];
+  readonly traceBusy: number[] = [];
+  readonly traceOrbit: number[] = [];
+  readonly traceQueue: number[] = [];
+  readonly traceCalls: number[] = [];
+  private nextTrace = 0;
+
+  private calls = 0;
+  private blockedFirst = 0;
+  private busyIntegral = 0;
+  private intensityIntegral = 0;
+  private refusingIntensityIntegral = 0;
+  private measureStart = 0;
+  private events = 0;
+  private readonly halfCalls: number;
+  private readonly halfSpan: number;
+  private halfTaken = false;
+  private halfTime = 0;
+  private halfBusyIntegral = 0;
+  private readonly occupancy: Float64Array;
+
+  constructor(scenario: Scenario, index: number, options: Omit<ReplicationOptions, "generalLoop"> = {}) {
+    const refusal = markovPathRefusal(scenario);
+    if (refusal) throw new Error(`the Markov path does not run this scenario: ${refusal}`);
+    this.index = index;
+    this.rng = new Random(scenario.run.seed, index, SUBSTREAM.arrivals);
+    this.servers = scenario.servers;
+    this.holdingMean = (scenario.holding as { mean: number }).mean;
+    this.serviceRate = 1 / this.holdingMean;
+    this.occupancy = new Float64Array(this.servers + 1);
+    const a = scenario.arrivals;
+    const mmpp = mmppOf(a);
+    if (a.process === "poisson") {
+      this.arrivalKind = A_POISSON;
+      this.rate = a.rate;
+    } else if (a.process === "finite-source") {
+      this.arrivalKind = A_FINITE;
+      this.sources = a.sources;
+      this.idleRate = a.idleRate;
+    } else {
+      this.arrivalKind = A_MMPP;
+      const k = mmpp!.rates.length;
+      this.phaseRates = Float64Array.from(mmpp!.rates);
+      this.phaseOut = new Float64Array(k);
+      for (let i = 0; i < k; i++) {
+        let out = 0;
+        for (let j = 0; j < k; j++) if (j !== i) out += mmpp!.switching[i][j];
+        this.phaseOut[i] = out;
+        const jump = new Float64Array(k);
+        let s = 0;
+        for (let j = 0; j < k; j++) {
+          if (j !== i) s += mmpp!.switching[i][j];
+          jump[j] = out > 0 ? s / out : j >= i ? 1 : 0;
+        }
+        jump[k - 1] = 1;
+        this.phaseJump.push(jump);
+      }
+      // Start in the stationary phase law, like the event loops.
+      const pi = stationaryOfGenerator(mmpp!.switching);
+      const u = this.rng.next();
+      let s = 0;
+      this.phase = pi.length - 1;
+      for (let i = 0; i < pi.length; i++)
+        if (u <= (s += pi[i])) {
+          this.phase = i;
+          break;
+        }
+    }
+    const run = scenario.run;
+    this.callsTarget = run.callsPerReplication ?? Infinity;
+    this.horizon = run.horizon ?? Infinity;
+    this.warmupCallsTarget = options.warmupCalls ?? run.warmupCalls ?? 0;
+    this.warmupTimeTarget = options.warmupCalls !== undefined ? 0 : (run.warmupTime ?? 0);
+    this.traceEvery = options.traceEvery ?? 0;
+    this.halfCalls = this.callsTarget === Infinity ? Infinity : Math.ceil(this.callsTarget / 2);
+    this.halfSpan = this.horizon === Infinity ? Infinity : this.horizon / 2;
+    if (this.warmupCallsTarget === 0 && this.warmupTimeTarget === 0) this.startMeasuring();
+    else if (this.warmupTimeTarget > 0) this.control = this.warmupTimeTarget;
+  }
+
+  private startMeasuring(): void {
+    this.measuring = true;
+    this.measureStart = this.t;
+    this.calls = this.blockedFirst = 0;
+    this.busyIntegral = this.intensityIntegral = this.refusingIntensityIntegral = 0;
+    this.halfTaken = false;
+    this.halfTime = this.halfBusyIntegral = 0;
+    this.occupancy.fill(0);
+    this.control = this.horizon === Infinity ? Infinity : this.t + this.horizon;
+  }
+
+  /** Runs up to `maxEvents` jumps; returns true once the replication is complete. */
+  advance(maxEvents: number): boolean {
+    if (this.done) return true;
+    const occupancy = this.occupancy;
+    const servers = this.servers;
+    const mu = this.serviceRate;
+    const rng = this.rng;
+    const kind = this.arrivalKind;
+    const phaseRates = this.phaseRates;
+    const phaseOut = this.phaseOut;
+    let t = this.t;
+    let busy = this.busy;
+    let phase = this.phase;
+    let events = this.events;
+    let calls = this.calls;
+    let blockedFirst = this.blockedFirst;
+    let busyIntegral = this.busyIntegral;
+    let intensityIntegral = this.intensityIntegral;
+    let refusingIntensityIntegral = this.refusingIntensityIntegral;
+    let finished = false;
+    const limit = events + maxEvents;
+    while (events < limit) {
+      const lambda = kind === A_POISSON ? this.rate : kind === A_MMPP ? phaseRates[phase] : (this.sources - busy) * this.idleRate;
+      const departures = busy * mu;
+      const switching = kind === A_MMPP ? phaseOut[phase] : 0;
+      const q = lambda + departures + switching;
+      if (q === 0) {
+        finished = true; // absorbing: nothing can happen any more
+        break;
+      }
+      let sojourn = 1 / q;
+      // A horizon or warm-up time that falls inside this sojourn splits it.
+      while (t + sojourn >= this.control) {
+        const part = this.control - t;
+        occupancy[busy] += part;
+        busyIntegral += busy * part;
+        intensityIntegral += lambda * part;
+        if (busy === servers) refusingIntensityIntegral += lambda * part;
+        t = this.control;
+        sojourn -= part;
+        if (this.measuring) {
+          finished = true;
+          break;
+        }
+        this.t = t;
+        this.startMeasuring();
+        calls = blockedFirst = 0;
+        busyIntegral = intensityIntegral = refusingIntensityIntegral = 0;
+      }
+      if (finished) break;
+      occupancy[busy] += sojourn;
+      busyIntegral += busy * sojourn;
+      intensityIntegral += lambda * sojourn;
+      if (busy === servers) refusingIntensityIntegral += lambda * sojourn;
+      t += sojourn;
+      events++;
+      const u = rng.next() * q;
+      if (u < lambda) {
+        // A fresh call.
+        if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
+          this.t = t;
+          this.startMeasuring();
+          calls = blockedFirst = 0;
+          busyIntegral = intensityIntegral = refusingIntensityIntegral = 0;
+        }
+        if (this.measuring && calls >= this.callsTarget) {
+          events--;
+          finished = true;
+          break;
+        }
+        if (this.traceEvery > 0 && this.callsSeen >= this.nextTrace) {
+          this.traceTime.push(t);
+          this.traceBusy.push(busyIntegral);
+          this.traceOrbit.push(0);
+          this.traceQueue.push(0);
+          this.traceCalls.push(this.callsSeen);
+          while (this.nextTrace <= this.callsSeen) this.nextTrace += this.traceEvery;
+        }
+        this.callsSeen++;
+        calls++;
+        if (busy < servers) busy++;
+        else blockedFirst++;
+        if (this.measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
+          this.halfTaken = true;
+          this.halfTime = t - this.measureStart;
+          this.halfBusyIntegral = busyIntegral;
+        }
+      } else if (u < lambda + departures) busy--;
+      else {
+        const jump = this.phaseJump[phase];
+        const v = rng.next();
+        let j = 0;
+        while (v > jump[j]) j++;
+        phase = j;
+      }
+    }
+    this.t = t;
+    this.busy = busy;
+    this.phase = phase;
+    this.events = events;
+    this.calls = calls;
+    this.blockedFirst = blockedFirst;
+    this.busyIntegral = busyIntegral;
+    this.intensityIntegral = intensityIntegral;
+    this.refusingIntensityIntegral = refusingIntensityIntegral;
+    if (finished) this.done = true;
+    return finished;
+  }
+
+  progress(): number {
+    if (this.done) return 1;
+    if (this.callsTarget !== Infinity) return Math.min(1, this.callsSeen / (this.warmupCallsTarget + this.callsTarget));
+    const end = this.measuring ? this.control : this.warmupTimeTarget + this.horizon;
+    return end === Infinity ? 0 : Math.min(1, this.t / end);
+  }
+
+  stats(): ReplicationStats {
+    const admitted = this.calls - this.blockedFirst;
+    const time = this.t - this.measureStart;
+    const allBusy = this.occupancy[this.servers];
+    // Constant-rate Poisson: rate x time, as the event loops report it.
+    const poisson = this.arrivalKind === A_POISSON;
+    return {
+      index: this.index,
+      calls: this.calls,
+      blockedFirst: this.blockedFirst,
+      // No waiting line and no retrials: one attempt per call, refused calls are lost.
+      attempts: this.calls,
+      blockedAttempts: this.blockedFirst,
+      lost: this.blockedFirst,
+      admitted,
+      waited: 0,
+      abandoned: 0,
+      waitSum: 0,
+      time,
+      busyIntegral: this.busyIntegral,
+      orbitIntegral: 0,
+      queueIntegral: 0,
+      allBusyTime: allBusy,
+      occupancy: this.occupancy,
+      events: this.events,
+      warmupCalls: this.warmupCallsTarget,
+      warmupTime: this.measureStart,
+      intensityIntegral: poisson ? this.rate * time : this.intensityIntegral,
+      refusingIntensityIntegral: poisson ? this.rate * allBusy : this.refusingIntensityIntegral,
+      refusingTime: allBusy,
+      holdingDraws: admitted,
+      holdingSum: admitted * this.holdingMean,
+      primaryArrivals: [],
+      primaryOverflows: [],
+      halfTime: this.halfTime,
+      halfBusyIntegral: this.halfBusyIntegral,
+      halfOrbitIntegral: 0,
+      halfQueueIntegral: 0,
+      warmupAtBound: 0,
+      path: this.path,
+    };
+  }
+}

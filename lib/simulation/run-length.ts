@@ -1,0 +1,135 @@
+import tQuantile from "@stdlib/stats-base-dists-t-quantile";
+import { aggregateReplications } from "./aggregate";
+import { relaxationTime } from "./diagnostics";
+import { runReplication } from "./replication";
+import { buildResult } from "./result";
+import { freshCallRate, lawMean, type Scenario } from "./scenario";
+
+/**
+ * Run-length planning: before a run, about how many calls (and seconds) the requested relative
+ * precision of call congestion needs. Pure: the same scenario and options give the same answer
+ * (the pilot runs fixed replications of the scenario's own seed).
+ *
+ * - Erlang model (Poisson arrivals, exponential holding, no waiting, no retrials): the asymptotic
+ *   variance of the time-congestion estimator from the birth-death formula
+ *   sigma^2 = 2 sum_{j<N} (sum_{i<=j} pi_i (f_i - B))^2 / (lambda pi_j), f = 1{N busy}
+ *   (Whitt, Operations Research 40, 1992; applied to blocking by Srikant & Whitt, ACM TOMACS 6,
+ *   1996), so n = z^2 v / (r B)^2 calls with v = lambda sigma^2 the variance per call. The control
+ *   variates of the result only shorten this (typically 2-4x), so the plan is on the safe side.
+ * - Elsewhere a short pilot (PILOT_REPLICATIONS replications) of the scenario measures the
+ *   variance per call of the reported estimator; a 10-replication variance is itself uncertain by
+ *   about +-45 % (chi-square on 9 degrees of freedom), which the figures inherit.
+ */
+
+export interface RunLengthOptions {
+  /** Target half-width of the call-congestion interval relative to the estimate (0 < r < 1). */
+  relativeHalfWidth: number;
+  /** Speed of one core in events per second; default: the reference loop on the project's machine (README, Performance). */
+  eventsPerSecond?: number;
+  threads?: number;
+}
+
+export interface RunLengthPlan {
+  /** Measured fresh calls needed in all (warm-up excluded). */
+  calls: number;
+  /** Per replication, with the scenario's replication count. */
+  callsPerReplication: number;
+  replications: number;
+  /** Wall-clock estimate including warm-up calls. */
+  seconds: number;
+  /** How the variance was obtained. */
+  method: string;
+  /** Call congestion the plan is for (exact, or the pilot's estimate). */
+  callCongestion: number;
+  /** Variance per call of the estimator relative to independent sampling, B (1 - B). */
+  varianceRatio: number;
+  /** True when the pilot saw no blocking: `calls` is then only a lower bound. */
+  lowerBound: boolean;
+}
+
+/** Events per second of one core (reference loop, 10-18 M measured in tests/bench; a round middle value). */
+export const DEFAULT_EVENTS_PER_SECOND = 12e6;
+export const PILOT_REPLICATIONS = 10;
+const PILOT_CALLS = 20_000;
+const PILOT_MAX_CALLS_PER_REPLICATION = 200_000;
+
+/** Is this the Erlang model whose asymptotic variance has a closed form? */
+export function isErlangModel(scenario: Scenario): boolean {
+  return scenario.arrivals.process === "poisson" && scenario.holding.law === "exponential" && scenario.waitingPositions === 0 && !scenario.retrials;
+}
+
+/**
+ * Asymptotic variance per unit time of the fraction of time all N servers are busy in M/M/N/N
+ * (Whitt's birth-death formula, see above), with the stationary law from the Erlang recursion.
+ */
+export function erlangTimeCongestionVariance(servers: number, arrivalRate: number, meanHolding: number): { blocking: number; variance: number } {
+  const a = arrivalRate * meanHolding;
+  // pi_j proportional to a^j / j!, normalised in logs to stay finite for large N.
+  const logTerms = new Float64Array(servers + 1);
+  for (let j = 1; j <= servers; j++) logTerms[j] = logTerms[j - 1] + Math.log(a / j);
+  let max = -Infinity;
+  for (const v of logTerms) max = Math.max(max, v);
+  let total = 0;
+  const pi = Array.from(logTerms, (v) => Math.exp(v - max));
+  for (const p of pi) total += p;
+  for (let j = 0; j <= servers; j++) pi[j] /= total;
+  const b = pi[servers];
+  let cumulative = 0;
+  let sum = 0;
+  for (let j = 0; j < servers; j++) {
+    cumulative += pi[j];
+    if (pi[j] > 0) sum += (b * cumulative) ** 2 / (arrivalRate * pi[j]);
+  }
+  return { blocking: b, variance: 2 * sum };
+}
+
+function quantile(scenario: Scenario): number {
+  return tQuantile(0.5 + scenario.run.confidence / 2, Math.max(1, scenario.run.replications - 1));
+}
+
+function finish(scenario: Scenario, options: RunLengthOptions, b: number, variancePerCall: number, method: string, lowerBound: boolean): RunLengthPlan {
+  const r = options.relativeHalfWidth;
+  if (!(r > 0 && r < 1)) throw new RangeError("relativeHalfWidth: must be > 0 and < 1");
+  const z = quantile(scenario);
+  const replications = scenario.run.replications;
+  const calls = Math.ceil((z * z * variancePerCall) / (r * b) ** 2);
+  const callsPerReplication = Math.ceil(calls / replications);
+  const warmup = scenario.run.warmupCalls ?? (scenario.run.warmupTime ?? 0) * freshCallRate(scenario.arrivals, lawMean(scenario.holding));
+  // Each call costs an arrival and, when served, a departure; retries and phase changes add a little.
+  const eventsPerCall = 2 - b + (scenario.retrials ? 1 : 0);
+  const eventsPerSecond = (options.eventsPerSecond ?? DEFAULT_EVENTS_PER_SECOND) * Math.max(1, options.threads ?? 1);
+  const seconds = ((callsPerReplication + warmup) * replications * eventsPerCall) / eventsPerSecond;
+  return { calls, callsPerReplication, replications, seconds, method, callCongestion: b, varianceRatio: variancePerCall / (b * (1 - b)), lowerBound };
+}
+
+/** About how many calls and seconds a run of this scenario needs for the requested precision. */
+export function planRunLength(scenario: Scenario, options: RunLengthOptions): RunLengthPlan {
+  if (isErlangModel(scenario) && scenario.arrivals.process === "poisson") {
+    const rate = scenario.arrivals.rate;
+    const { blocking, variance } = erlangTimeCongestionVariance(scenario.servers, rate, lawMean(scenario.holding));
+    if (blocking > 0)
+      return finish(scenario, options, blocking, variance * rate, "asymptotic variance of the time-congestion estimator, M/M/N/N birth-death formula (Whitt 1992; Srikant & Whitt 1996)", false);
+  }
+  return pilotPlan(scenario, options);
+}
+
+/** The pilot: fixed replications of the scenario, long enough for its relaxation time where affordable. */
+function pilotPlan(scenario: Scenario, options: RunLengthOptions): RunLengthPlan {
+  const rate = freshCallRate(scenario.arrivals, lawMean(scenario.holding));
+  const tau = relaxationTime(scenario).time;
+  const wanted = Number.isFinite(tau) ? 100 * tau * rate : PILOT_MAX_CALLS_PER_REPLICATION;
+  const perReplication = Math.round(Math.min(PILOT_MAX_CALLS_PER_REPLICATION, Math.max(PILOT_CALLS, wanted)));
+  const { precision: _precision, horizon: _horizon, callsPerReplication: _calls, chunkReplications: _chunk, ...run } = scenario.run;
+  const pilot: Scenario = { ...scenario, run: { ...run, replications: PILOT_REPLICATIONS, callsPerReplication: perReplication } };
+  const stats = Array.from({ length: PILOT_REPLICATIONS }, (_, i) => runReplication(pilot, i));
+  const result = buildResult(pilot, aggregateReplications(stats, pilot.servers), []);
+  const cc = result.callCongestion;
+  const note = perReplication < wanted ? `; the pilot's replications (${perReplication} calls) are shorter than 100 relaxation times, so treat the figure as rough` : "";
+  if (cc.upperBoundOnly || !(cc.estimate > 0) || !(cc.standardError > 0)) {
+    // No blocking seen: at best the counting variance B (1 - B) per call at the upper bound.
+    const upper = cc.ciHigh;
+    return finish(scenario, options, upper, upper * (1 - upper), `pilot of ${PILOT_REPLICATIONS} x ${perReplication} calls saw no blocking; at least this many calls (independent sampling at the upper bound ${Number(upper.toPrecision(3))})${note}`, true);
+  }
+  const variancePerCall = cc.standardError ** 2 * result.calls;
+  return finish(scenario, options, cc.estimate, variancePerCall, `pilot of ${PILOT_REPLICATIONS} x ${perReplication} calls (${cc.method ?? "direct count"})${note}`, false);
+}
