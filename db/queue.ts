@@ -25,6 +25,8 @@ const queueOptions: Record<QueueName, Omit<PgBoss.Queue, "name">> = {
   [queues.sweepStart]: { retryLimit: 3, retryDelay: 1, retryBackoff: true, expireInSeconds: 60 },
   [queues.sweepAdvance]: { retryLimit: 3, retryDelay: 1, retryBackoff: true, expireInSeconds: 60 },
   [queues.notify]: { retryLimit: 5, retryDelay: 5, retryBackoff: true, expireInSeconds: 60 },
+  // A 20 MB file takes tens of seconds to characterise; a worker killed meanwhile is noticed after 10 minutes.
+  [queues.characteriseUpload]: { retryLimit: 2, retryDelay: 5, retryBackoff: true, expireInSeconds: 600 },
 };
 
 /**

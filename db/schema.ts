@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import {
   bigint,
   bigserial,
+  customType,
   doublePrecision,
   boolean,
   index,
@@ -16,6 +17,7 @@ import {
 } from "drizzle-orm/pg-core";
 import { workspaceRoles } from "../lib/schemas/roles";
 import { jobStatuses } from "../lib/schemas/job-status";
+import { UPLOAD_KINDS, UPLOAD_STATUSES } from "../lib/measurement/uploads";
 
 const id = () => text("id").primaryKey().$defaultFn(() => crypto.randomUUID());
 const createdAt = () => timestamp("created_at", { withTimezone: true, mode: "date" }).notNull().defaultNow();
@@ -345,3 +347,52 @@ export const workspaceQuotas = pgTable("workspace_quotas", {
   callsPerRun: bigint("calls_per_run", { mode: "number" }).notNull(),
   pointsPerSweep: integer("points_per_sweep").notNull(),
 });
+
+// ---------------------------------------------------------------------------------------------
+// Measured traffic (issue #9): uploaded files kept durably, and their characterisation.
+// ---------------------------------------------------------------------------------------------
+
+/** Raw bytes (node-postgres reads bytea as a Buffer). */
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => "bytea" });
+
+/** Durable object storage behind lib/storage's interface: one row per object, bytes inline. */
+export const storedObjects = pgTable("stored_objects", {
+  key: text("key").primaryKey(),
+  workspaceId: text("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+  contentType: text("content_type").notNull(),
+  sizeBytes: bigint("size_bytes", { mode: "number" }).notNull(),
+  sha256: text("sha256").notNull(),
+  bytes: bytea("bytes").notNull(),
+  createdAt: createdAt(),
+});
+
+export const uploadKind = pgEnum("upload_kind", UPLOAD_KINDS);
+export const uploadStatus = pgEnum("upload_status", UPLOAD_STATUSES);
+
+/** A measured-traffic file: its column mapping, where its bytes are, and what the worker made of it. */
+export const uploads = pgTable(
+  "uploads",
+  {
+    id: id(),
+    workspaceId: text("workspace_id").notNull().references(() => workspaces.id, { onDelete: "cascade" }),
+    uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    fileName: text("file_name").notNull(),
+    kind: uploadKind("kind").notNull(),
+    /** lib/measurement `columnMappingSchema`, as parsed. */
+    mapping: jsonb("mapping").$type<Record<string, unknown>>().notNull(),
+    // NO ACTION (checked at the end of the statement), so deleting a workspace cascades to both tables.
+    objectKey: text("object_key").notNull().references(() => storedObjects.key),
+    sizeBytes: bigint("size_bytes", { mode: "number" }).notNull(),
+    sha256: text("sha256").notNull(),
+    status: uploadStatus("status").notNull().default("stored"),
+    /** 0..1 while the worker characterises. */
+    progress: doublePrecision("progress").notNull().default(0),
+    /** lib/measurement `Characterisation` once ready. */
+    characterisation: jsonb("characterisation").$type<Record<string, unknown>>(),
+    error: text("error"),
+    createdAt: createdAt(),
+    startedAt: at("started_at"),
+    finishedAt: at("finished_at"),
+  },
+  (t) => [index("uploads_workspace_idx").on(t.workspaceId, t.createdAt)],
+);

@@ -4,8 +4,16 @@ import { createDatabase, type Database } from "./client";
 import { demoAccounts, demoWorkspaces } from "./demo-data";
 import { memberships, users, workspaces } from "./schema";
 import { hashPassword, verifyPassword } from "../lib/secrets/password";
+import { seedDemoLab } from "./demo-lab";
+import { seedDemoTraffic } from "./demo-traffic";
 
-export async function seedDemo(db: Database): Promise<void> {
+export async function seedDemo(db: Database, log: (line: string) => void = () => {}): Promise<void> {
+  await seedAccounts(db);
+  await seedDemoLab(db, log);
+  await seedDemoTraffic(db, log);
+}
+
+async function seedAccounts(db: Database): Promise<void> {
   await db.transaction(async (tx) => {
     const workspaceIds = new Map<string, string>();
     for (const workspace of demoWorkspaces) {
@@ -49,7 +57,7 @@ export async function seedDemo(db: Database): Promise<void> {
 
 if (import.meta.url === `file://${process.argv[1]}`) {
   const { db, pool } = createDatabase(process.env.DATABASE_URL ?? "", 2);
-  seedDemo(db)
+  seedDemo(db, console.log)
     .then(() => console.log("Demo workspace seeded."))
     .catch((error) => {
       console.error(`seed: ${error.message}`);

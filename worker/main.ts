@@ -55,7 +55,7 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
   };
 
   const register = async <Q extends QueueName>(queue: Q, entry: HandlerEntry<Q>) => {
-    const copies = entry.concurrency === "threads" ? threads : entry.concurrency;
+    const copies = entry.concurrency === "threads+1" ? threads + 1 : entry.concurrency;
     for (let i = 0; i < copies; i++) {
       let id: string | undefined;
       id = await boss.work<unknown>(queue, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: entry.pollingIntervalSeconds }, async ([job]) => {
@@ -71,7 +71,8 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
           job.expireInSeconds = Number(job.expireInSeconds); // pg returns EXTRACT(epoch ...) as a numeric string
           await entry.handle(context, payload, job);
         } catch (error) {
-          log(`${queue}: job ${job.id} failed (attempt ${job.retryCount + 1} of ${job.retryLimit + 1}): ${(error as Error).message}`);
+          if (error instanceof ChunkStopped) log(`${queue}: job ${job.id} handed back (${error.message})`);
+          else log(`${queue}: job ${job.id} failed (attempt ${job.retryCount + 1} of ${job.retryLimit + 1}): ${(error as Error).message}`);
           throw error;
         } finally {
           // Look for the next job at once instead of waiting out the polling interval.

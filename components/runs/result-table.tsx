@@ -1,5 +1,5 @@
 import { Table, TBody, TD, TH, THead, TR } from "@/components/ui";
-import { formatMeasure, formatPoints, probabilityMeasures } from "@/lib/client/format";
+import { formatErlangs, formatMeasure, formatNumber, formatPoints, probabilityMeasures } from "@/lib/client/format";
 import type { Reference, SimulationResult } from "@/lib/simulation";
 
 type Interval = SimulationResult["callCongestion"];
@@ -43,7 +43,9 @@ export function comparisonRows(result: SimulationResult): ComparisonRow[] {
 }
 
 function formatDifference(measure: string, d: number) {
-  return probabilityMeasures.has(measure) ? formatPoints(d) : `${d > 0 ? "+" : d < 0 ? "−" : "±"}${formatMeasure(measure, Math.abs(d))}`;
+  if (probabilityMeasures.has(measure)) return formatPoints(d);
+  const sign = d > 0 ? "+" : d < 0 ? "−" : "±";
+  return `${sign}${measure === "carriedTraffic" ? formatErlangs(Math.abs(d), 2) : formatNumber(Math.abs(d), 2)}`;
 }
 
 /** Simulated figures with their intervals beside every reference that gives the same measure. */

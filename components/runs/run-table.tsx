@@ -33,8 +33,8 @@ function HeadlineCells({ workspace, run }: { workspace: string; run: RunListItem
   const result = headline?.result;
   return (
     <>
-      <TD numeric>{result ? `${formatPercent(result.callCongestion.estimate)} ± ${formatPercent(result.callCongestion.halfWidth, 2)}` : "–"}</TD>
-      <TD numeric>{formatPercent(result?.references[0]?.callCongestion)}</TD>
+      <TD numeric className="whitespace-nowrap">{result ? `${formatPercent(result.callCongestion.estimate)} ± ${formatPercent(result.callCongestion.halfWidth, 2)}` : "–"}</TD>
+      <TD numeric className="whitespace-nowrap">{formatPercent(result?.references[0]?.callCongestion)}</TD>
       <TD>{headline?.verdict ? <VerdictBadge kind={headline.verdict.kind} /> : "–"}</TD>
     </>
   );
@@ -50,7 +50,7 @@ export function RunTable({ workspace, runs, empty, caption }: { workspace: strin
           <TH>Run</TH>
           <TH>Status</TH>
           <TH numeric>Call congestion</TH>
-          <TH numeric>Erlang B</TH>
+          <TH numeric className="whitespace-nowrap">Erlang B</TH>
           <TH>Verdict at {formatPercent(DEFAULT_TARGET_GOS)}</TH>
           <TH>Review</TH>
           <TH>Submitted</TH>

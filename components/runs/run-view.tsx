@@ -10,7 +10,7 @@ import { formatDateTime, formatDuration, formatErlangs, formatNumber, formatPerc
 import { isLive } from "@/lib/client/queries/keys";
 import { useCancelRun, useRun } from "@/lib/client/queries/runs";
 import { sizesSafetyCapacity } from "@/lib/client/safety";
-import { verdictFor } from "@/lib/client/verdict";
+import { erlangBTraffic, verdictFor } from "@/lib/client/verdict";
 import type { RunResponse } from "@/lib/jobs/api-types";
 import type { SimulationResult } from "@/lib/simulation";
 import { ConvergenceChart, OccupancyChart, ReplicationChart } from "./run-charts";
@@ -180,7 +180,7 @@ function RunResult({ run, result, servers, safety }: { run: RunResponse; result:
       )}
       <StatGroup>
         <Stat label="Simulated call congestion" value={formatPercent(result.callCongestion.estimate)} hint={`± ${formatPercent(result.callCongestion.halfWidth, 2)} at ${Math.round(result.confidence * 100)} %`} tone={verdict?.kind === "breaks" ? "danger" : "default"} />
-        <Stat label="Erlang B at the same mean load" value={formatPercent(erlangB?.callCongestion)} hint={`${formatErlangs(result.offeredTraffic)} offered on ${servers} circuits`} />
+        <Stat label="Erlang B at the same mean load" value={formatPercent(erlangB?.callCongestion)} hint={`${formatErlangs(erlangBTraffic(result.references) ?? result.offeredTraffic)} offered to the ${servers} circuits`} />
         <Stat label="Carried traffic" value={formatErlangs(result.carriedTraffic.estimate)} hint={`± ${formatErlangs(result.carriedTraffic.halfWidth, 2)}`} />
         <Stat label="Replications" value={formatNumber(result.replications)} hint={`${formatNumber(result.calls)} calls measured; ${stopReasons[result.stopReason]}`} />
       </StatGroup>

@@ -84,13 +84,12 @@ export function ReferencesPanel({ workspace, scenario, servers }: { workspace: s
           <>
             <p className="text-sm text-basin-900" data-testid="offered-traffic">
               Mean offered traffic <strong className="tabular-nums">{formatErlangs(data.offeredTraffic)}</strong>
-              {servers ? (
-                <>
-                  {" "}
-                  on <strong className="tabular-nums">{servers}</strong> circuits
-                </>
-              ) : null}
-              .
+              {traffic !== undefined && Math.abs(traffic - data.offeredTraffic) > 1e-6 * data.offeredTraffic ? (
+                <> to the primary groups; <strong className="tabular-nums">{formatErlangs(traffic)}</strong> of it reaches</>
+              ) : (
+                " on"
+              )}{" "}
+              the <strong className="tabular-nums">{servers ?? "–"}</strong> circuits.
               {sizing !== null && traffic !== undefined && (
                 <>
                   {" "}

@@ -251,7 +251,7 @@ function EditorForm({ workspace, scenarioId, initial, canEdit, canRun, onImport 
                   </>
                 )}
               </div>
-              {initial?.revision && <p className="text-xs text-basin-600">Editing revision {initial.revision}; saving makes revision {initial.revision + 1}.</p>}
+              {canEdit && initial?.revision && <p className="text-xs text-basin-600">Editing revision {initial.revision}; saving makes revision {initial.revision + 1}.</p>}
             </CardBody>
           </Card>
           <ReferencesPanel workspace={workspace} scenario={valid} servers={typeof servers === "number" ? servers : undefined} />

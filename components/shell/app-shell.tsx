@@ -20,6 +20,11 @@ export function AppShell({ workspace, role, user, workspaces, mailboxEnabled, ch
   const base = `/w/${workspace.slug}`;
   const links = [
     { href: base, label: "Overview", exact: true, show: true },
+    { href: `${base}/scenarios`, label: "Scenarios", show: true },
+    { href: `${base}/runs`, label: "Runs", show: true },
+    { href: `${base}/sweeps`, label: "Sweeps", show: true },
+    { href: `${base}/traffic`, label: "Traffic", show: true },
+    { href: `${base}/settings`, label: "Settings", show: true },
     { href: `${base}/members`, label: "Members", show: roleAllows(role, "member.read") },
     { href: `${base}/audit`, label: "Audit log", show: roleAllows(role, "audit.read") },
     { href: `${base}/mailbox`, label: "Mailbox", show: mailboxEnabled && roleAllows(role, "mailbox.read") },

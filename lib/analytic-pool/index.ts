@@ -5,7 +5,7 @@ import path from "node:path";
 import { Piscina } from "piscina";
 import { analyticPoolConfig, bundleDir } from "@/lib/config";
 import type { AnalyticOperationName } from "@/lib/teletraffic/operations";
-import type { EvaluationOutcome, EvaluationTask } from "./worker";
+import type { EvaluationOutcome, EvaluationTask, PoolOperation } from "./worker";
 import { exceedsInteractiveLimit } from "./limits";
 
 /** A refusal or failure with a `kind` the API maps to its status (lib/api/respond.ts). */
@@ -57,8 +57,8 @@ const inFlight = new Map<string, number>();
  * Evaluates an analytic operation in the pool for a user. Throws AnalyticPoolError: "too-large" (size limit or
  * time budget, 422), "busy" (the user's cap or a full queue, 429), or the method's own input/convergence/no-answer.
  */
-export async function evaluateInPool(operation: AnalyticOperationName, input: unknown, options: { userId: string; budgetMs?: number }): Promise<Record<string, unknown>> {
-  const over = exceedsInteractiveLimit(operation, input);
+export async function evaluateInPool(operation: PoolOperation, input: unknown, options: { userId: string; budgetMs?: number }): Promise<Record<string, unknown>> {
+  const over = exceedsInteractiveLimit(operation as AnalyticOperationName, input);
   if (over) throw tooLarge(`${over.measure} is ${over.size}, above the interactive limit of ${over.max}`);
   const perUser = analyticPoolConfig.perUser();
   const running = inFlight.get(options.userId) ?? 0;

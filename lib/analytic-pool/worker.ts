@@ -1,9 +1,19 @@
 // Worker-thread entry: evaluates one analytic operation off the web server's event loop. Bundled to plain
 // JavaScript by lib/ops/bundle.ts; answers with a tagged result because errors lose their class across threads.
 import { analyticOperations, type AnalyticOperationName } from "../teletraffic/operations";
+import { offeredTraffic, parseScenario, referencesFor } from "../simulation/index";
+
+/** Evaluations beyond the closed forms: the scenario editor's analytic references (exact chains can take seconds). */
+export const scenarioEvaluations = {
+  "scenario-references": (input: unknown) => {
+    const scenario = parseScenario(input);
+    return { offeredTraffic: offeredTraffic(scenario), references: referencesFor(scenario) };
+  },
+};
+export type PoolOperation = AnalyticOperationName | keyof typeof scenarioEvaluations;
 
 export interface EvaluationTask {
-  operation: AnalyticOperationName;
+  operation: PoolOperation;
   input: unknown;
 }
 
@@ -36,6 +46,8 @@ const noAnswer = (operation: string, detail: string): EvaluationOutcome => ({
 
 export function evaluateTask({ operation, input }: EvaluationTask): EvaluationOutcome {
   try {
+    // Scenario references report an unevaluable method inside the result (`unavailable`), so they skip the check.
+    if (operation === "scenario-references") return { ok: true, result: scenarioEvaluations[operation](input) };
     const result = analyticOperations[operation].evaluate(input);
     const bad = nonFinitePath(result);
     return bad ? noAnswer(operation, `${bad} is not finite`) : { ok: true, result };

@@ -6,12 +6,14 @@ import { CliUsageError, formatNumber, formatTable, type CliCommand, type CliOutp
 /** Flags that always hold a list, even when given a single number. */
 const listFlags: Partial<Record<AnalyticOperationName, string[]>> = {
   "mmpp-loss": ["rates"],
-  "renewal-loss": ["interarrival.probabilities", "interarrival.means"],
+  "mmpp-queue": ["rates"],
+  "renewal-loss": ["interarrival.probabilities", "interarrival.means", "interarrival.samples"],
+  "batch-loss": ["batchSize.values", "batchSize.probabilities"],
 };
 
 /** Flags of renewal-loss that describe the interarrival law, so `--law erlang --k 2 --mean 0.1` works. */
 const nestedFlags: Partial<Record<AnalyticOperationName, { into: string; keys: string[] }>> = {
-  "renewal-loss": { into: "interarrival", keys: ["law", "k", "mean", "scv", "probabilities", "means", "value", "cv"] },
+  "renewal-loss": { into: "interarrival", keys: ["law", "k", "mean", "scv", "probabilities", "means", "value", "cv", "shape", "scale", "min", "max", "samples"] },
 };
 
 const numberPattern = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;

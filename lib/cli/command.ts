@@ -34,5 +34,7 @@ export function formatNumber(value: number): string {
   if (Number.isInteger(value)) return String(value);
   const magnitude = Math.abs(value);
   if (magnitude !== 0 && (magnitude < 1e-4 || magnitude >= 1e9)) return value.toExponential(6);
-  return value.toPrecision(8).replace(/\.?0+$/, "");
+  // Why only after a decimal point: an integer-valued text such as "12345680" (8 digits, 1e7..1e8)
+  // lost its trailing zero and printed ten times too small.
+  return value.toPrecision(8).replace(/(\.\d*?)0+$/, "$1").replace(/\.$/, "");
 }

@@ -1,9 +1,10 @@
 import { ZodError } from "zod";
 import { analyticCommands } from "./analytic-commands";
 import { simulationCommands } from "./simulation-commands";
+import { remoteCommands } from "./remote-commands";
 import { CliUsageError, isInputError, type CliCommand } from "./command";
 
-const commands: CliCommand[] = [...analyticCommands, ...simulationCommands];
+const commands: CliCommand[] = [...analyticCommands, ...simulationCommands, ...remoteCommands];
 
 function usage(): string {
   const width = Math.max(...commands.map((c) => c.name.length), 4);
@@ -48,6 +49,11 @@ async function main(argv: string[]): Promise<number> {
       // The inputs are valid but outside where the method converges: still the caller's choice to change.
       console.error(`${command.name}: did not converge: ${describeError(error)}`);
       return 2;
+    }
+    if ((error as { kind?: unknown }).kind === "remote") {
+      // The server, the connection or the remote run failed: say so plainly, exit 1.
+      console.error(`${command.name}: ${describeError(error)}`);
+      return 1;
     }
     console.error(`${command.name}: internal error: ${describeError(error)}`);
     return 1;

@@ -86,6 +86,10 @@ const REFERENCE_FIELD: Partial<Record<keyof SimulationResult, string>> = {
   waitingProbability: "waitingProbability",
   meanWait: "meanWait",
   meanWaiting: "meanWaiting",
+  firstAttemptBlocking: "callCongestion",
+  attemptsPerCall: "attemptsPerCall",
+  meanRetrying: "meanRetrying",
+  abandonmentProbability: "abandonmentProbability",
 };
 
 function fmt(value: number | undefined): string {

@@ -67,7 +67,7 @@ export function verdictFor(input: { servers: number; callCongestion: Estimate; c
         : `Erlang B sizes ${formatErlangs(traffic)} at ${formulaServers} circuits for ${formatPercent(target)}; at the ${servers} simulated it promises ${formatPercent(formulaBlocking)}, and under this traffic`;
   const sentence =
     kind === "breaks"
-      ? `${formulaSays} the call congestion is ${formatPercent(sim.estimate)} (${ci}): the sizing breaks, missing the ${formatPercent(target)} target by ${formatPoints(margin)} (${(sim.estimate / target).toPrecision(2)} × the target).`
+      ? `${formulaSays} the call congestion is ${formatPercent(sim.estimate)} (${ci}): the sizing breaks, missing the ${formatPercent(target)} target by ${formatPoints(margin).replace(/^\+/, "")} (${(sim.estimate / target).toPrecision(2)} × the target).`
       : kind === "holds"
         ? `${formulaSays} the call congestion is ${formatPercent(sim.estimate)} (${ci}): the sizing holds, ${formatPoints(-margin).replace(/^\+/, "")} inside the ${formatPercent(target)} target.`
         : `${formulaSays} the call congestion is ${formatPercent(sim.estimate)} (${ci}): the interval straddles the ${formatPercent(target)} target, so this run cannot tell whether the sizing holds; run more replications.`;

@@ -18,6 +18,8 @@ export const queues = {
   sweepAdvance: "sweep-advance",
   /** E-mail the submitter about a finished or failed run or sweep, or a review decision. */
   notify: "notify",
+  /** Read a stored measured-traffic upload and characterise it (busy hour, peakedness, holding-time fits). */
+  characteriseUpload: "characterise-upload",
 } as const;
 export type QueueName = (typeof queues)[keyof typeof queues];
 export const allQueueNames: QueueName[] = Object.values(queues);
@@ -36,6 +38,7 @@ export const payloadSchemas = {
     id,
     event: z.enum(["succeeded", "failed", "cancelled", "approved", "changes-requested"]),
   }),
+  [queues.characteriseUpload]: z.strictObject({ uploadId: id }),
 } satisfies Record<QueueName, z.ZodType>;
 
 export type Payload<Q extends QueueName> = z.infer<(typeof payloadSchemas)[Q]>;

@@ -33,13 +33,16 @@ export function callsRequested(scenario: Scenario): { calls: number; field: stri
   return { calls: planned, field: measuredField };
 }
 
-/** Throws when a run of `scenario` would exceed the calls-per-run quota; `prefix` places the field in the body. */
-export function checkCallsPerRun(scenario: Scenario, quotas: Quotas, prefix = "scenario", where = "this run"): void {
+/**
+ * Throws when a run of `scenario` would exceed the calls-per-run quota. `inline`: the scenario came in the body,
+ * so the error names `scenario.<field>`; otherwise it names `scenarioId` and says which field of the stored one.
+ */
+export function checkCallsPerRun(scenario: Scenario, quotas: Quotas, inline: boolean, where = "this run"): void {
   const { calls, field } = callsRequested(scenario);
   if (calls > quotas.callsPerRun)
     throw new QuotaInputError(
-      `${where} asks for about ${about(calls)} calls (replications x (warm-up + measured calls), or the precision budget); this workspace allows ${about(quotas.callsPerRun)} per run (quota callsPerRun)`,
-      `${prefix}.${field}`,
+      `${where} asks for about ${about(calls)} calls (replications x (warm-up + measured calls), or the precision budget; set by ${field}); this workspace allows ${about(quotas.callsPerRun)} per run (quota callsPerRun)`,
+      inline ? `scenario.${field}` : "scenarioId",
     );
 }
 

@@ -5,7 +5,7 @@ import "server-only";
 import type PgBoss from "pg-boss";
 import type { Database } from "@/db/client";
 import { getBoss } from "@/db/queue";
-import { transactionalSend, type Transaction } from "@/db/queries/run-work";
+import { transactionalSend, type JobSend, type Transaction } from "@/db/queries/run-work";
 import { countActiveRuns, findQuotas, insertRun, lockWorkspaceSubmissions, markRunCancelled } from "@/db/queries/runs";
 import { findScenarioRevision } from "@/db/queries/scenarios";
 import { insertSweep, markSweepCancelled } from "@/db/queries/sweeps";
@@ -68,31 +68,32 @@ async function resolveScenario(db: Database, workspaceId: string, source: { scen
  * In one transaction: serialise this workspace's submissions, check the concurrent-runs quota, insert, queue.
  * A queue that refuses the job rolls everything back (no orphan queued run) and answers 503.
  */
-async function enqueue(db: Database, boss: PgBoss, submitter: Submitter, slots: number, insert: (tx: Transaction, send: ReturnType<typeof transactionalSend>) => Promise<JobAccepted>): Promise<JobAccepted> {
+async function enqueue(db: Database, boss: PgBoss, submitter: Submitter, slots: number, insert: (tx: Transaction, send: JobSend) => Promise<JobAccepted>): Promise<JobAccepted> {
   const quotas = await findQuotas(db, submitter.workspaceId);
-  try {
-    return await db.transaction(async (tx) => {
-      await lockWorkspaceSubmissions(tx, submitter.workspaceId);
-      const refusal = concurrencyRefusal(await countActiveRuns(tx, submitter.workspaceId), slots, quotas);
-      if (refusal) throw new ApiError(429, "quota-exceeded", refusal);
-      return insert(tx, transactionalSend(tx, boss));
-    });
-  } catch (error) {
-    if (error instanceof ApiError || error instanceof RecordInputError) throw error;
-    if (isQueueFailure(error)) throw queueUnavailable(error);
-    throw error;
-  }
+  return db.transaction(async (tx) => {
+    await lockWorkspaceSubmissions(tx, submitter.workspaceId);
+    const refusal = concurrencyRefusal(await countActiveRuns(tx, submitter.workspaceId), slots, quotas);
+    if (refusal) throw new ApiError(429, "quota-exceeded", refusal);
+    return insert(tx, sendOr503(tx, boss));
+  });
 }
 
-/** pg-boss failures (not ours to explain further) as opposed to bugs. */
-function isQueueFailure(error: unknown): boolean {
-  return error instanceof Error && /pg-boss|queue/i.test(error.message);
+/** Sends inside the transaction; whatever stops the job being written is the queue's failure (503), and rolls back. */
+function sendOr503(tx: Transaction, boss: PgBoss): JobSend {
+  const send = transactionalSend(tx, boss);
+  return async (queue, payload, options) => {
+    try {
+      return await send(queue, payload, options);
+    } catch (error) {
+      throw queueUnavailable(error);
+    }
+  };
 }
 
 /** POST …/runs: validate, check quotas, store the queued run and its run-start job together. */
 export async function submitRun(db: Database, boss: PgBoss, submitter: Submitter, input: RunSubmit): Promise<JobAccepted> {
   const source = await resolveScenario(db, submitter.workspaceId, input);
-  checkCallsPerRun(source.scenario, await findQuotas(db, submitter.workspaceId), input.scenario ? "scenario" : "revision");
+  checkCallsPerRun(source.scenario, await findQuotas(db, submitter.workspaceId), !!input.scenario);
   const plan = planRun(source.scenario);
   return enqueue(db, boss, submitter, 1, async (tx, send) => {
     const run = await insertRun(tx, { ...submitter, ...source, name: input.name, plan });
@@ -115,7 +116,7 @@ export async function submitSweep(db: Database, boss: PgBoss, submitter: Submitt
     throw error;
   }
   // Every point must fit the calls-per-run quota (a search's probes differ only in servers: the first stands for all).
-  for (const point of points) checkCallsPerRun(point.scenario, quotas, input.scenario ? "scenario" : "revision", `point ${point.point} (${describeValues(point.values)})`);
+  for (const point of points) checkCallsPerRun(point.scenario, quotas, !!input.scenario, `point ${point.point} (${describeValues(point.values)})`);
   return enqueue(db, boss, submitter, slotsNeeded(definition), async (tx, send) => {
     const sweep = await insertSweep(tx, { ...submitter, ...source, name: input.name, definition, pointsPlanned });
     await send(queues.sweepStart, { sweepId: sweep.id });
@@ -134,7 +135,7 @@ export async function cancelRun(db: Database, boss: PgBoss, submitter: Submitter
     const outcome = await markRunCancelled(tx, { workspaceId: submitter.workspaceId, runId, userId: submitter.userId });
     if (outcome.kind === "missing") throw notFound("run");
     if (outcome.kind === "finished") throw alreadyFinished("run", outcome.status);
-    await transactionalSend(tx, boss)(queues.runFinalise, { runId });
+    await sendOr503(tx, boss)(queues.runFinalise, { runId });
     return { id: runId, status: "cancelled" };
   });
 }
@@ -145,7 +146,7 @@ export async function cancelSweep(db: Database, boss: PgBoss, submitter: Submitt
     const outcome = await markSweepCancelled(tx, { workspaceId: submitter.workspaceId, sweepId, userId: submitter.userId });
     if (outcome.kind === "missing") throw notFound("sweep");
     if (outcome.kind === "finished") throw alreadyFinished("sweep", outcome.status);
-    const send = transactionalSend(tx, boss);
+    const send = sendOr503(tx, boss);
     for (const runId of outcome.runIds) await send(queues.runFinalise, { runId });
     return { id: sweepId, status: "cancelled" };
   });

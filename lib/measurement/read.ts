@@ -91,13 +91,21 @@ export async function previewCsv(source: ByteSource, rows = PREVIEW_ROWS, maxByt
 
 const HINTS: Record<string, RegExp> = {
   start: /^(start|start[ _-]?time|call[ _-]?start|begin|timestamp|time|seized|setup[ _-]?time)$/i,
-  duration: /^(duration|holding[ _-]?time|hold|length|seconds|secs|call[ _-]?duration|conversation[ _-]?time)$/i,
+  duration: /^(duration|holding[ _-]?time|hold|length|seconds|secs|call[ _-]?duration|conversation[ _-]?time)([ _-]?(\(?(s|sec|secs|seconds|ms|millis|milliseconds|min|mins|minutes)\)?))?$/i,
   outcome: /^(outcome|result|status|disposition|cause)$/i,
   group: /^(route|group|trunk[ _-]?group|trunk|queue|pool|circuit[ _-]?group)$/i,
   intervalStart: /^(interval|interval[ _-]?start|period|period[ _-]?start|slot)$/i,
   attempts: /^(attempts|call[ _-]?attempts|offered|bids|calls)$/i,
   carried: /^(carried|answered|completed|served)$/i,
 };
+
+/** The unit a duration column's name states ("duration_ms", "hold (min)"); none when it states none. */
+function unitOf(column: string): "milliseconds" | "minutes" | undefined {
+  const suffix = /[ _-]?\(?([a-z]+)\)?$/i.exec(column.trim())?.[1]?.toLowerCase() ?? "";
+  if (["ms", "millis", "milliseconds"].includes(suffix)) return "milliseconds";
+  if (["min", "mins", "minutes"].includes(suffix)) return "minutes";
+  return undefined;
+}
 
 /** Guesses a mapping from header names; null when neither kind's required columns are found. */
 export function guessMapping(header: string[]): ColumnMappingInput | null {
@@ -113,5 +121,6 @@ export function guessMapping(header: string[]): ColumnMappingInput | null {
   if (!start || !duration) return null;
   const outcome = find("outcome");
   const group = find("group");
-  return { kind: "call-records", start, duration, ...(outcome ? { outcome } : {}), ...(group ? { group } : {}) };
+  const durationUnit = unitOf(duration);
+  return { kind: "call-records", start, duration, ...(durationUnit ? { durationUnit } : {}), ...(outcome ? { outcome } : {}), ...(group ? { group } : {}) };
 }

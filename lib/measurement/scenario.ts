@@ -2,6 +2,7 @@ import { z } from "zod";
 import { minServersForBlocking } from "../teletraffic/erlang-b";
 import { parseScenario, type Law, type Scenario } from "../simulation/scenario";
 import type { Characterisation } from "./characterise";
+import { MeasurementInputError } from "./errors";
 import { FAMILIES, FAMILY_NAMES, type FamilyName } from "./laws";
 import { renewalPeakedness } from "../teletraffic/renewal";
 import { exponentialKernelIntegral, onOffInterarrivalScv, onOffPeakedness, shapeOfFamily, shapeOfSample, survivalSquareIntegral, type HoldingShape, type OnOff } from "./peakedness";
@@ -147,7 +148,7 @@ export function makeScenario(c: Characterisation, optionsInput: MakeScenarioOpti
     holdingName = "exponential (given mean)";
     notes.push("Interval counts carry no holding times: exponential holding with the mean given in the mapping.");
   } else {
-    throw new Error("a scenario needs a holding time: upload call records, or give the mean holding time with the interval counts");
+    throw new MeasurementInputError("bad-mapping", "a scenario needs a holding time: upload call records, or give the mean holding time (meanHoldingSeconds) with the interval counts", undefined, "meanHoldingSeconds");
   }
   holdingLaw = scaleLaw(holdingLaw, 1 / 60);
   shape = scaleShape(shape, 1 / 60);

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { jobStatuses } from "./job-status";
+import { jobStatuses, type JobStatus } from "./job-status";
 import { cursorSchema, pageLimitSchema } from "./paging";
 import { scenarioBodySchema } from "./scenarios";
 
@@ -31,11 +31,16 @@ export type RunSubmit = z.output<typeof runSubmitSchema>;
 
 export const jobStatusSchema = z.enum(jobStatuses);
 
-/** `status=queued,running`: one or more statuses, comma-separated. */
-export const statusFilterSchema = z
-  .string()
-  .transform((text) => text.split(",").map((s) => s.trim()).filter(Boolean))
-  .pipe(z.array(jobStatusSchema, { error: `must be a comma-separated list of ${jobStatuses.join(", ")}` }).min(1, "needs at least one status"));
+/** `status=queued,running`: one or more statuses, comma-separated (errors name `status` itself). */
+export const statusFilterSchema = z.string().transform((text, ctx): JobStatus[] => {
+  const parts = text.split(",").map((s) => s.trim()).filter(Boolean);
+  const unknown = parts.filter((s) => !(jobStatuses as readonly string[]).includes(s));
+  if (parts.length === 0 || unknown.length > 0) {
+    ctx.addIssue({ code: "custom", message: `${unknown.length ? `"${unknown[0]}" is not a status; ` : ""}give one or more of ${jobStatuses.join(", ")}, comma-separated` });
+    return z.NEVER;
+  }
+  return parts as JobStatus[];
+});
 
 /** GET …/runs?status=&scenarioId=&sweepId=&limit=&cursor=: newest first. Without `sweepId`, a sweep's point runs are left out. */
 export const runListQuerySchema = z.strictObject({

@@ -30,8 +30,9 @@ export const sweepSubmitSchema = z
     const parsedDefinition = sweepDefinitionSchema.safeParse(definition);
     for (const issue of [...(parsedSource.error?.issues ?? []), ...(parsedDefinition.error?.issues ?? [])]) {
       // A discriminated union reports at the object; name the discriminator itself (as parseScenario does).
-      const discriminator = issue.code === "invalid_union" ? issue.discriminator : undefined;
-      ctx.addIssue({ code: "custom", message: issue.message, path: [...(issue.path as (string | number)[]), ...(discriminator ? [discriminator] : [])] });
+      const path = issue.path as (string | number)[];
+      const discriminator = issue.code === "invalid_union" && issue.discriminator && path[path.length - 1] !== issue.discriminator ? [issue.discriminator] : [];
+      ctx.addIssue({ code: "custom", message: issue.message, path: [...path, ...discriminator] });
     }
     if (!parsedSource.success || !parsedDefinition.success) return z.NEVER;
     return { ...parsedSource.data, definition: parsedDefinition.data };

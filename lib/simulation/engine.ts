@@ -1,6 +1,7 @@
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { Random, SUBSTREAM } from "./random";
 import { freshCallRate, lawMean, type Scenario } from "./scenario";
+import { mmppOf, stationaryOfGenerator } from "./traffic";
 
 /**
  * Counters of one replication, measured after the warm-up. This is the contract every event loop
@@ -151,43 +152,7 @@ export interface ReplicationOptions {
   generalLoop?: boolean;
 }
 
-/** Stationary distribution of a CTMC generator with off-diagonal rates q[i][j] (Gaussian elimination). */
-export function stationaryOfGenerator(q: number[][]): number[] {
-  const k = q.length;
-  const a = Array.from({ length: k }, (_, j) => Array.from({ length: k + 1 }, () => 0));
-  // Rows are the balance equations pi Q = 0 (transposed); the last is replaced by sum(pi) = 1.
-  for (let i = 0; i < k; i++) {
-    let out = 0;
-    for (let j = 0; j < k; j++) if (j !== i) out += q[i][j];
-    for (let j = 0; j < k; j++) a[j][i] = j === i ? -out : q[i][j];
-  }
-  for (let i = 0; i <= k; i++) a[k - 1][i] = 1;
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let r = c + 1; r < k; r++) if (Math.abs(a[r][c]) > Math.abs(a[p][c])) p = r;
-    [a[c], a[p]] = [a[p], a[c]];
-    for (let r = 0; r < k; r++) {
-      if (r === c || a[r][c] === 0) continue;
-      const f = a[r][c] / a[c][c];
-      for (let j = c; j <= k; j++) a[r][j] -= f * a[c][j];
-    }
-  }
-  return a.map((row, i) => Math.max(0, row[k] / row[i]));
-}
-
-/** MMPP phase rates and switching matrix for `mmpp` and its `on-off` special case. */
-export function mmppOf(arrivals: Scenario["arrivals"]): { rates: number[]; switching: number[][] } | undefined {
-  if (arrivals.process === "mmpp") return { rates: arrivals.rates, switching: arrivals.switching };
-  if (arrivals.process === "on-off")
-    return {
-      rates: [arrivals.onRate, 0],
-      switching: [
-        [0, 1 / arrivals.meanOn],
-        [1 / arrivals.meanOff, 0],
-      ],
-    };
-  return undefined;
-}
+export { mmppOf, stationaryOfGenerator };
 
 /**
  * One replication as a resumable state machine: `advance` runs a bounded number of events so

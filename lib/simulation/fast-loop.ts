@@ -1,8 +1,13 @@
-import { mmppOf, stationaryOfGenerator, type ReplicationOptions, type ReplicationStats } from "./engine";
+import { nearRefusalMargin, type ReplicationOptions, type ReplicationStats } from "./engine";
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { Random, SUBSTREAM } from "./random";
 import type { Scenario } from "./scenario";
-import { zigExponential } from "./ziggurat";
+import { mmppOf, stationaryOfGenerator } from "./traffic";
+import { zigExponential as importedZigExponential } from "./ziggurat";
+
+// A module-local binding: module loaders that turn imports into property getters (tsx, vitest)
+// would otherwise pay a getter call on every draw.
+const zigExponential = importedZigExponential;
 
 /**
  * The specialised event loop: the reference loop's model and event order (engine.ts), with the
@@ -81,6 +86,7 @@ export class FastReplication {
   private readonly phaseRates: Float64Array = new Float64Array(0);
   private readonly phaseOut: Float64Array = new Float64Array(0);
   private readonly phaseJump: Float64Array[] = [];
+  private phaseWeight: Float64Array = new Float64Array(0);
   private readonly primaryServers: Int32Array = new Int32Array(0);
   private readonly primaryBusy: Int32Array = new Int32Array(0);
   private readonly primaryChoice: Float64Array = new Float64Array(0);
@@ -146,6 +152,16 @@ export class FastReplication {
   private refusingTime = 0;
   private holdingDraws = 0;
   private holdingSum = 0;
+  /** Lowest level (busy + waiting) counted as near refusal (engine.ts nearRefusalMargin). */
+  private readonly nearLevel: number;
+  private nearRefusalTime = 0;
+  private nearRefusalCalls = 0;
+  private nearRefusalIntensityIntegral = 0;
+  private nearRefusalHoldingDraws = 0;
+  private nearRefusalHoldingSum = 0;
+  private nearRefusalGapDeviation = 0;
+  private phaseSojournDeviation = 0;
+  private nearRefusalPhaseSojournDeviation = 0;
   private readonly halfCalls: number;
   private readonly halfSpan: number;
   private halfTaken = false;
@@ -245,6 +261,7 @@ export class FastReplication {
     this.warmupCallsTarget = options.warmupCalls ?? run.warmupCalls ?? 0;
     this.warmupTimeTarget = options.warmupCalls !== undefined ? 0 : (run.warmupTime ?? 0);
     this.traceEvery = options.traceEvery ?? 0;
+    this.nearLevel = Math.max(0, this.servers + this.waitingPositions - nearRefusalMargin(scenario));
     this.halfCalls = this.callsTarget === Infinity ? Infinity : Math.ceil(this.callsTarget / 2);
     this.halfSpan = this.horizon === Infinity ? Infinity : this.horizon / 2;
     if (this.warmupCallsTarget === 0 && this.warmupTimeTarget === 0) this.startMeasuring();
@@ -252,6 +269,8 @@ export class FastReplication {
 
     if (kind === A_MMPP) {
       const pi = stationaryOfGenerator(mmpp!.switching);
+      const mean = pi.reduce((acc, p, i) => acc + p * mmpp!.rates[i], 0);
+      this.phaseWeight = Float64Array.from(mmpp!.rates, (r) => r / mean - 1);
       const u = this.arrivalRng.next();
       let s = 0;
       this.phase = pi.length - 1;
@@ -260,7 +279,7 @@ export class FastReplication {
           this.phase = i;
           break;
         }
-      this.enterPhase();
+      this.enterPhase(0);
     } else this.nextArrival = this.freshArrivalAfter(0, 0, 0, 0);
   }
 
@@ -272,6 +291,8 @@ export class FastReplication {
     this.waitSum = this.busyIntegral = this.orbitIntegral = this.queueIntegral = 0;
     this.intensityIntegral = this.refusingIntensityIntegral = this.refusingTime = 0;
     this.holdingDraws = this.holdingSum = 0;
+    this.nearRefusalTime = this.nearRefusalCalls = this.nearRefusalIntensityIntegral = this.nearRefusalHoldingDraws = this.nearRefusalHoldingSum = 0;
+    this.nearRefusalGapDeviation = this.phaseSojournDeviation = this.nearRefusalPhaseSojournDeviation = 0;
     this.primaryArrivals.fill(0);
     this.primaryOverflows.fill(0);
     this.halfTaken = false;
@@ -280,11 +301,19 @@ export class FastReplication {
     this.control = this.horizon === Infinity ? Infinity : this.t + this.horizon;
   }
 
-  /** Draws both MMPP clocks for the current phase (phase change first, as the reference loop does). */
-  private enterPhase(): void {
+  /** Draws both MMPP clocks for the current phase (phase change first, as the reference loop does); `level` is busy + waiting. */
+  private enterPhase(level: number): void {
     const p = this.phase;
     const out = this.phaseOut[p];
-    this.nextPhase = out > 0 ? this.t + unitExponential(this.arrivalRng, this.zig) / out : Infinity;
+    if (out > 0) {
+      const e = unitExponential(this.arrivalRng, this.zig); // sojourn x exit rate: a unit exponential
+      this.nextPhase = this.t + e / out;
+      if (this.measuring) {
+        const deviation = (e - 1) * this.phaseWeight[p];
+        this.phaseSojournDeviation += deviation;
+        if (level >= this.nearLevel) this.nearRefusalPhaseSojournDeviation += deviation;
+      }
+    } else this.nextPhase = Infinity;
     const r = this.phaseRates[p];
     this.nextArrival = r > 0 ? this.t + unitExponential(this.arrivalRng, this.zig) / r : Infinity;
   }
@@ -296,8 +325,11 @@ export class FastReplication {
         const r = this.phaseRates[this.phase];
         return r > 0 ? t + unitExponential(this.arrivalRng, this.zig) / r : Infinity;
       }
-      case A_RENEWAL:
-        return t + this.interarrival!.sample(this.arrivalRng);
+      case A_RENEWAL: {
+        const gap = this.interarrival!.sample(this.arrivalRng);
+        if (this.measuring && busy + waiting >= this.nearLevel) this.nearRefusalGapDeviation += gap / this.interarrival!.mean - 1;
+        return t + gap;
+      }
       case A_FINITE: {
         const idle = this.sources - busy - orbit - waiting;
         return idle > 0 ? t + unitExponential(this.arrivalRng, this.zig) / (idle * this.idleRate) : Infinity;
@@ -410,6 +442,12 @@ export class FastReplication {
     let refusingIntensityIntegral = this.refusingIntensityIntegral;
     let holdingDraws = this.holdingDraws;
     let holdingSum = this.holdingSum;
+    const nearLevel = this.nearLevel;
+    let nearTime = this.nearRefusalTime;
+    let nearCalls = this.nearRefusalCalls;
+    let nearIntensity = this.nearRefusalIntensityIntegral;
+    let nearDraws = this.nearRefusalHoldingDraws;
+    let nearSum = this.nearRefusalHoldingSum;
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
@@ -439,12 +477,17 @@ export class FastReplication {
       orbitIntegral += orbit * dt;
       queueIntegral += waiting * dt;
       const refusing = busy === servers && waiting === waitingPositions;
-      if (refusing && waitingPositions > 0) refusingTime += dt;
+      const near = busy + waiting >= nearLevel;
+      if (waitingPositions > 0) {
+        if (refusing) refusingTime += dt;
+        if (near) nearTime += dt;
+      }
       if (integrated) {
         const intensity = kind === A_MMPP ? phaseRates[this.phase] * dt : finite ? (sources - busy - orbit - waiting) * idleRate * dt : this.overflowIntensity * dt;
         if (intensity >= 0) {
           intensityIntegral += intensity;
           if (refusing) refusingIntensityIntegral += intensity;
+          if (near) nearIntensity += intensity;
         }
       }
       t = to;
@@ -457,6 +500,7 @@ export class FastReplication {
         this.startMeasuring();
         calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
         busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
+        nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
         continue;
       }
       events++;
@@ -486,6 +530,7 @@ export class FastReplication {
           this.startMeasuring();
           calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
           busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
+        nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
         }
         if (this.measuring && calls >= callsTarget) {
           events--;
@@ -507,6 +552,7 @@ export class FastReplication {
         if (kind === A_BATCH) {
           tries = this.batchSize!.sample(this.arrivalRng);
           refuseAll = this.allOrNothing && tries > servers - busy + waitingPositions - waiting;
+          if (refuseAll && busy + waiting >= nearLevel) nearCalls += tries;
         } else tries = 1;
         this.callsSeen += tries;
         calls += tries;
@@ -517,13 +563,13 @@ export class FastReplication {
         while (u > jump[j]) j++;
         this.phase = j;
         this.t = t;
-        this.enterPhase();
+        this.enterPhase(busy + waiting);
         nextArrival = this.nextArrival;
         continue;
       } else {
         const data = this.heapData[0];
         this.popRoot();
-        const k = data % 4;
+        const k = data < 2147483648 ? data & 3 : data % 4; // integer path; float modulo only for huge queue ids
         const payload = (data - k) / 4;
         if (k === K_DEPARTURE) {
           busy--;
@@ -532,12 +578,17 @@ export class FastReplication {
             this.queueHead++;
             if (this.queueAlive[pos] === 0) continue;
             this.queueAlive[pos] = 0;
+            const level = busy + waiting; // just before this call leaves the line for a server
             waiting--;
             this.waitSum += t - this.queueArrival[pos];
             busy++;
             const h = holding.sample(hr);
             holdingDraws++;
             holdingSum += h;
+            if (level >= nearLevel) {
+              nearDraws++;
+              nearSum += h;
+            }
             this.push(t + h, K_DEPARTURE);
             break;
           }
@@ -563,12 +614,18 @@ export class FastReplication {
 
       for (let c = 0; c < tries; c++) {
         attempts++;
+        const level = busy + waiting;
+        if (fresh && !refuseAll && level >= nearLevel) nearCalls++;
         if (!refuseAll && busy < servers) {
           busy++;
           admitted++;
           const h = holding.sample(hr);
           holdingDraws++;
           holdingSum += h;
+          if (level >= nearLevel) {
+            nearDraws++;
+            nearSum += h;
+          }
           this.push(t + h, K_DEPARTURE);
           continue;
         }
@@ -622,6 +679,11 @@ export class FastReplication {
     this.refusingIntensityIntegral = refusingIntensityIntegral;
     this.holdingDraws = holdingDraws;
     this.holdingSum = holdingSum;
+    this.nearRefusalTime = nearTime;
+    this.nearRefusalCalls = nearCalls;
+    this.nearRefusalIntensityIntegral = nearIntensity;
+    this.nearRefusalHoldingDraws = nearDraws;
+    this.nearRefusalHoldingSum = nearSum;
     if (finished) this.done = true;
     return finished;
   }
@@ -657,6 +719,13 @@ export class FastReplication {
       warmupTime: this.measureStart,
       ...this.intensityStats(),
       refusingTime: this.waitingPositions > 0 ? this.refusingTime : this.occupancy[this.servers],
+      nearRefusalTime: this.nearTime(),
+      nearRefusalCalls: this.nearRefusalCalls,
+      nearRefusalHoldingDraws: this.nearRefusalHoldingDraws,
+      nearRefusalHoldingSum: this.nearRefusalHoldingSum,
+      nearRefusalGapDeviation: this.nearRefusalGapDeviation,
+      phaseSojournDeviation: this.phaseSojournDeviation,
+      nearRefusalPhaseSojournDeviation: this.nearRefusalPhaseSojournDeviation,
       holdingDraws: this.holdingDraws,
       holdingSum: this.holdingSum,
       primaryArrivals: Array.from(this.primaryArrivals),
@@ -670,10 +739,23 @@ export class FastReplication {
     };
   }
 
-  private intensityStats(): { intensityIntegral: number; refusingIntensityIntegral: number } {
-    if (this.meanCallRate === 0) return { intensityIntegral: this.intensityIntegral, refusingIntensityIntegral: this.refusingIntensityIntegral };
+  /** Without waiting positions the level is the busy count, so the window's time is read off the occupancy (as engine.ts does). */
+  private nearTime(): number {
+    if (this.waitingPositions > 0) return this.nearRefusalTime;
+    let sum = 0;
+    for (let k = this.nearLevel; k <= this.servers; k++) sum += this.occupancy[k];
+    return sum;
+  }
+
+  private intensityStats(): { intensityIntegral: number; refusingIntensityIntegral: number; nearRefusalIntensityIntegral: number } {
+    if (this.meanCallRate === 0)
+      return { intensityIntegral: this.intensityIntegral, refusingIntensityIntegral: this.refusingIntensityIntegral, nearRefusalIntensityIntegral: this.nearRefusalIntensityIntegral };
     // Constant rate: the same products as the reference loop.
     const refusing = this.waitingPositions > 0 ? this.refusingTime : this.occupancy[this.servers];
-    return { intensityIntegral: this.meanCallRate * (this.t - this.measureStart), refusingIntensityIntegral: this.meanCallRate * refusing };
+    return {
+      intensityIntegral: this.meanCallRate * (this.t - this.measureStart),
+      refusingIntensityIntegral: this.meanCallRate * refusing,
+      nearRefusalIntensityIntegral: this.meanCallRate * this.nearTime(),
+    };
   }
 }

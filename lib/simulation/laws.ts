@@ -1,7 +1,10 @@
-import lnGamma from "@stdlib/math-base-special-gammaln";
-import type { BatchSizeLaw, Law } from "./scenario";
+import { balancedHyperexponential, weibullShapeForCv, type BatchSizeLaw, type Law } from "../teletraffic/laws";
+import { lnGamma } from "../teletraffic/numeric";
 import type { Random } from "./random";
-import { zigExponential, zigGamma, zigNormal } from "./ziggurat";
+import * as ziggurat from "./ziggurat";
+
+// Module-local bindings: loaders that turn imports into property getters would pay one per draw.
+const { zigExponential, zigGamma, zigNormal } = ziggurat;
 
 /** Numeric law codes: the hot loop switches on these instead of calling closures. */
 export const LAW = {
@@ -17,24 +20,8 @@ export const LAW = {
   empirical: 9,
 } as const;
 
-/** Weibull shape k with the given coefficient of variation: cv^2 = G(1+2/k)/G(1+1/k)^2 - 1, decreasing in k. */
-export function weibullShapeForCv(cv: number): number {
-  const cvOf = (k: number) => Math.sqrt(Math.exp(lnGamma(1 + 2 / k) - 2 * lnGamma(1 + 1 / k)) - 1);
-  let lo = Math.log(0.02);
-  let hi = Math.log(200);
-  for (let i = 0; i < 200; i++) {
-    const mid = (lo + hi) / 2;
-    if (cvOf(Math.exp(mid)) > cv) lo = mid;
-    else hi = mid;
-  }
-  return Math.exp((lo + hi) / 2);
-}
-
-/** Balanced-means two-branch hyperexponential for a mean and squared coefficient of variation >= 1 (Whitt 1982). */
-export function balancedHyperexponential(mean: number, scv: number): { probabilities: number[]; means: number[] } {
-  const p = (1 + Math.sqrt((scv - 1) / (scv + 1))) / 2;
-  return { probabilities: [p, 1 - p], means: [mean / (2 * p), mean / (2 * (1 - p))] };
-}
+// One balanced hyperexponential and one Weibull fit for the whole program.
+export { balancedHyperexponential, weibullShapeForCv };
 
 /**
  * Codes of the ziggurat variants (`LawSampler(law, { ziggurat: true })`): the same laws drawn

@@ -1,6 +1,7 @@
-import { mmppOf, stationaryOfGenerator, type ReplicationOptions, type ReplicationStats } from "./engine";
+import { nearRefusalMargin, type ReplicationOptions, type ReplicationStats } from "./engine";
 import { Random, SUBSTREAM } from "./random";
 import type { Scenario } from "./scenario";
+import { mmppOf, stationaryOfGenerator } from "./traffic";
 
 /**
  * The Markov path: for a loss group whose model is a continuous-time Markov chain throughout
@@ -16,8 +17,9 @@ import type { Scenario } from "./scenario";
  * counts of calls (calls, blockedFirst, admitted) are still counts of the simulated jumps. A
  * horizon or warm-up time is measured on that clock. It is a different estimator of the same
  * quantities as the event loops, not the same sample path; tests compare it statistically.
- * Holding times are never drawn: `holdingSum` is `holdingDraws` x the mean, so a holding-time
- * control variate has nothing to correct here.
+ * Holding times, interarrival gaps and phase sojourns are never drawn: `holdingSum` is
+ * `holdingDraws` x the mean and the sojourn deviations are 0, so those control variates have
+ * nothing to correct here (the expected sojourns already removed that noise).
  */
 
 /** Why the Markov path does not apply to a scenario, or undefined when it does (the dispatch rule). */
@@ -74,6 +76,11 @@ export class MarkovReplication {
   private busyIntegral = 0;
   private intensityIntegral = 0;
   private refusingIntensityIntegral = 0;
+  /** Lowest busy count counted as near refusal (engine.ts nearRefusalMargin). */
+  private readonly nearLevel: number;
+  private nearRefusalCalls = 0;
+  private nearRefusalIntensityIntegral = 0;
+  private nearRefusalAdmitted = 0;
   private measureStart = 0;
   private events = 0;
   private readonly halfCalls: number;
@@ -136,6 +143,7 @@ export class MarkovReplication {
     this.warmupCallsTarget = options.warmupCalls ?? run.warmupCalls ?? 0;
     this.warmupTimeTarget = options.warmupCalls !== undefined ? 0 : (run.warmupTime ?? 0);
     this.traceEvery = options.traceEvery ?? 0;
+    this.nearLevel = Math.max(0, this.servers - nearRefusalMargin(scenario));
     this.halfCalls = this.callsTarget === Infinity ? Infinity : Math.ceil(this.callsTarget / 2);
     this.halfSpan = this.horizon === Infinity ? Infinity : this.horizon / 2;
     if (this.warmupCallsTarget === 0 && this.warmupTimeTarget === 0) this.startMeasuring();
@@ -147,6 +155,7 @@ export class MarkovReplication {
     this.measureStart = this.t;
     this.calls = this.blockedFirst = 0;
     this.busyIntegral = this.intensityIntegral = this.refusingIntensityIntegral = 0;
+    this.nearRefusalCalls = this.nearRefusalIntensityIntegral = this.nearRefusalAdmitted = 0;
     this.halfTaken = false;
     this.halfTime = this.halfBusyIntegral = 0;
     this.occupancy.fill(0);
@@ -172,6 +181,10 @@ export class MarkovReplication {
     let busyIntegral = this.busyIntegral;
     let intensityIntegral = this.intensityIntegral;
     let refusingIntensityIntegral = this.refusingIntensityIntegral;
+    const nearLevel = this.nearLevel;
+    let nearCalls = this.nearRefusalCalls;
+    let nearIntensity = this.nearRefusalIntensityIntegral;
+    let nearAdmitted = this.nearRefusalAdmitted;
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
@@ -191,6 +204,7 @@ export class MarkovReplication {
         busyIntegral += busy * part;
         intensityIntegral += lambda * part;
         if (busy === servers) refusingIntensityIntegral += lambda * part;
+        if (busy >= nearLevel) nearIntensity += lambda * part;
         t = this.control;
         sojourn -= part;
         if (this.measuring) {
@@ -201,12 +215,14 @@ export class MarkovReplication {
         this.startMeasuring();
         calls = blockedFirst = 0;
         busyIntegral = intensityIntegral = refusingIntensityIntegral = 0;
+        nearCalls = nearIntensity = nearAdmitted = 0;
       }
       if (finished) break;
       occupancy[busy] += sojourn;
       busyIntegral += busy * sojourn;
       intensityIntegral += lambda * sojourn;
       if (busy === servers) refusingIntensityIntegral += lambda * sojourn;
+      if (busy >= nearLevel) nearIntensity += lambda * sojourn;
       t += sojourn;
       events++;
       const u = rng.next() * q;
@@ -217,6 +233,7 @@ export class MarkovReplication {
           this.startMeasuring();
           calls = blockedFirst = 0;
           busyIntegral = intensityIntegral = refusingIntensityIntegral = 0;
+        nearCalls = nearIntensity = nearAdmitted = 0;
         }
         if (this.measuring && calls >= this.callsTarget) {
           events--;
@@ -233,6 +250,10 @@ export class MarkovReplication {
         }
         this.callsSeen++;
         calls++;
+        if (busy >= nearLevel) {
+          nearCalls++;
+          if (busy < servers) nearAdmitted++;
+        }
         if (busy < servers) busy++;
         else blockedFirst++;
         if (this.measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
@@ -258,6 +279,9 @@ export class MarkovReplication {
     this.busyIntegral = busyIntegral;
     this.intensityIntegral = intensityIntegral;
     this.refusingIntensityIntegral = refusingIntensityIntegral;
+    this.nearRefusalCalls = nearCalls;
+    this.nearRefusalIntensityIntegral = nearIntensity;
+    this.nearRefusalAdmitted = nearAdmitted;
     if (finished) this.done = true;
     return finished;
   }
@@ -275,6 +299,8 @@ export class MarkovReplication {
     const allBusy = this.occupancy[this.servers];
     // Constant-rate Poisson: rate x time, as the event loops report it.
     const poisson = this.arrivalKind === A_POISSON;
+    let nearTime = 0;
+    for (let k = this.nearLevel; k <= this.servers; k++) nearTime += this.occupancy[k];
     return {
       index: this.index,
       calls: this.calls,
@@ -299,6 +325,14 @@ export class MarkovReplication {
       intensityIntegral: poisson ? this.rate * time : this.intensityIntegral,
       refusingIntensityIntegral: poisson ? this.rate * allBusy : this.refusingIntensityIntegral,
       refusingTime: allBusy,
+      nearRefusalTime: nearTime,
+      nearRefusalCalls: this.nearRefusalCalls,
+      nearRefusalIntensityIntegral: poisson ? this.rate * nearTime : this.nearRefusalIntensityIntegral,
+      nearRefusalHoldingDraws: this.nearRefusalAdmitted,
+      nearRefusalHoldingSum: this.nearRefusalAdmitted * this.holdingMean,
+      nearRefusalGapDeviation: 0,
+      phaseSojournDeviation: 0,
+      nearRefusalPhaseSojournDeviation: 0,
       holdingDraws: admitted,
       holdingSum: admitted * this.holdingMean,
       primaryArrivals: [],

@@ -1,7 +1,13 @@
 import { z } from "zod";
 import * as tt from "../teletraffic";
-import { mmppOf, stationaryOfGenerator } from "./engine";
-import { batchMean, lawMean, type BatchSizeLaw, type Law, type Scenario } from "./scenario";
+import type { Scenario } from "./scenario";
+import { meanCallRate, mmppOf, offeredTraffic, overflowStreamMoments, streamMoments } from "./traffic";
+
+export { offeredTraffic, overflowStreamMoments };
+export { batchPeakedness, mmppOfferedMoments } from "../teletraffic";
+
+/** Direct overflow solves above this (N + 1) × K³ are background work (about 100 ms). */
+const INTERACTIVE_OVERFLOW_WORK = 20_000_000;
 
 /** An analytic value for (part of) the scenario, from lib/teletraffic. */
 export const referenceSchema = z.object({
@@ -18,337 +24,419 @@ export const referenceSchema = z.object({
   waitingProbability: z.number().optional(),
   meanWait: z.number().optional(),
   meanWaiting: z.number().optional(),
-  /** Set instead of values when the method could not be evaluated for these inputs. */
+  attemptsPerCall: z.number().optional(),
+  meanRetrying: z.number().optional(),
+  abandonmentProbability: z.number().optional(),
+  /** Share of batches losing at least one call. */
+  batchCongestion: z.number().optional(),
+  /** Estimated probability mass the method left out (orbit truncation); the value is exact to about this. */
+  truncationBound: z.number().optional(),
+  /** Per profile segment (time-varying load): start, duration and the method's call congestion there. */
+  segments: z.array(z.object({ start: z.number(), duration: z.number(), callCongestion: z.number() })).optional(),
+  /** True when the case is too large for an interactive answer: callers offer it as a background job. */
+  background: z.boolean().optional(),
+  /** Set instead of values when the method cannot be evaluated for these inputs (the reason). */
   unavailable: z.string().optional(),
 });
 export type Reference = z.infer<typeof referenceSchema>;
+type Values = Omit<Reference, "method" | "assumptions" | "exact" | "unavailable" | "background">;
 
-/** Overflow traffic moments of the primaries, treated as independent (Riordan's formulas per primary). */
-export function overflowStreamMoments(primaries: { traffic: number; servers: number }[]): { mean: number; variance: number } {
-  let mean = 0;
-  let variance = 0;
-  for (const p of primaries) {
-    if (p.servers === 0) {
-      mean += p.traffic;
-      variance += p.traffic; // a direct Poisson stream: peakedness 1
+/** What every rule needs to know about a scenario, computed once. */
+interface Facts {
+  n: number;
+  h: number;
+  /** mean offered traffic at the group under study, erlangs (overflow: the overflow traffic) */
+  traffic: number;
+  exponentialHolding: boolean;
+  retrying: boolean;
+  waiting: boolean;
+  pureLoss: boolean;
+}
+
+function factsOf(s: Scenario): Facts {
+  const h = tt.lawMean(s.holding);
+  const retrying = s.retrials !== undefined && s.retrials.persistence > 0;
+  return {
+    n: s.servers,
+    h,
+    traffic: meanCallRate(s) * h,
+    exponentialHolding: s.holding.law === "exponential",
+    retrying,
+    waiting: s.waitingPositions > 0,
+    pureLoss: s.waitingPositions === 0 && !retrying,
+  };
+}
+
+/**
+ * One reference method: which scenarios it applies to (and whether it is exact for them), its
+ * size limits, and how to compute it. Every rule is pure; `work` estimates the cost in the units
+ * of `interactiveWork`, above which an interactive caller gets a `background` flag instead.
+ */
+export interface ReferenceRule {
+  method: string | ((s: Scenario) => string);
+  applies(s: Scenario, f: Facts): { exact: boolean; assumptions: string } | undefined;
+  limits: string;
+  work?(s: Scenario, f: Facts): number;
+  interactiveWork?: number;
+  compute(s: Scenario, f: Facts): Values;
+}
+
+const exponentialOrUndefined = (law: Scenario["patience"]) => law === undefined || law.law === "exponential";
+
+/** The exact Markov chain (retrials and/or waiting room) applies to Poisson and finite-source fresh calls. */
+function markovModel(s: Scenario, f: Facts): tt.MarkovSystemModel | undefined {
+  const a = s.arrivals;
+  if (a.process !== "poisson" && a.process !== "finite-source") return undefined;
+  if (!f.retrying && !f.waiting) return undefined;
+  const r = s.retrials;
+  if (f.retrying && (r!.delay.law !== "exponential" || r!.maxAttempts !== undefined)) return undefined;
+  if (!exponentialOrUndefined(s.patience)) return undefined;
+  return {
+    servers: f.n,
+    waitingPositions: s.waitingPositions,
+    meanHolding: f.h,
+    patienceRate: s.patience ? 1 / tt.lawMean(s.patience) : 0,
+    arrivals: a.process === "poisson" ? { kind: "poisson", rate: a.rate } : { kind: "finite-source", sources: a.sources, idleRate: a.idleRate },
+    persistence: f.retrying ? r!.persistence : 0,
+    retryRate: f.retrying ? 1 / tt.lawMean(r!.delay) : 0,
+  };
+}
+
+function peakedRule(method: "Wilkinson equivalent random" | "Hayward"): ReferenceRule {
+  return {
+    method,
+    limits: "interactive for streams with mean <= 10^5 erlangs (equivalent random: peakedness >= 1)",
+    applies(s, f) {
+      if (!f.pureLoss || s.arrivals.process === "poisson" || s.arrivals.process === "finite-source" || s.arrivals.process === "time-varying") return undefined;
+      const m = streamMoments(s);
+      if (!m || Math.abs(m.peakedness - 1) < 1e-9) return undefined;
+      if (method === "Wilkinson equivalent random" && m.peakedness < 1) return undefined;
+      const what =
+        s.arrivals.process === "overflow" && s.arrivals.primaries.length === 1
+          ? "; with one primary group it reproduces that group's moments exactly"
+          : "";
+      return {
+        exact: false,
+        assumptions:
+          method === "Hayward"
+            ? `peaked stream: B(N/Z, M/Z) with Z = ${m.peakedness.toPrecision(4)} of the ${m.what} stream for exponential holding`
+            : `${m.what} stream replaced by the overflow of one Poisson group with the same mean and variance (peakedness ${m.peakedness.toPrecision(4)} for exponential holding)${what}`,
+      };
+    },
+    compute(s, f) {
+      const m = streamMoments(s)!;
+      const b = tt.peakedStreamBlocking(m.mean, m.variance, f.n);
+      const blocking = method === "Hayward" ? b.hayward : b.equivalentRandom;
+      if (blocking === undefined) throw new Error(b.unavailable);
+      return { callCongestion: blocking, carriedTraffic: m.mean * (1 - blocking) };
+    },
+  };
+}
+
+function timeVaryingRule(method: "pointwise stationary approximation" | "modified offered load approximation"): ReferenceRule {
+  const pointwise = method === "pointwise stationary approximation";
+  return {
+    method,
+    limits: `interactive up to segments × nodes × (N + 1) = ${tt.INTERACTIVE_TIME_VARYING_WORK}`,
+    interactiveWork: tt.INTERACTIVE_TIME_VARYING_WORK,
+    work: (s, f) => (s.arrivals.process === "time-varying" ? tt.timeVaryingWork(f.n, s.arrivals.profile, f.h) : 0),
+    applies(s, f) {
+      if (s.arrivals.process !== "time-varying" || !f.pureLoss) return undefined;
+      return {
+        exact: false,
+        assumptions: pointwise
+          ? "Erlang B at each segment's own traffic λ h, as if every segment were in equilibrium (Green & Kolesar 1991)"
+          : "Erlang B at the load the same arrivals would hold on infinitely many servers, m' = λ(t) − m/h (Jagerman 1975; Massey & Whitt 1994); exponential holding for m(t)",
+      };
+    },
+    compute(s, f) {
+      if (s.arrivals.process !== "time-varying") throw new Error("not a time-varying profile");
+      const r = tt.timeVaryingLoss({ servers: f.n, profile: s.arrivals.profile, meanHolding: f.h });
+      const call = pointwise ? r.pointwiseCallCongestion : r.modifiedLoadCallCongestion;
+      return {
+        callCongestion: call,
+        timeCongestion: pointwise ? r.pointwiseTimeCongestion : r.modifiedLoadTimeCongestion,
+        carriedTraffic: f.traffic * (1 - call),
+        segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, callCongestion: pointwise ? g.pointwiseBlocking : g.modifiedLoadBlocking })),
+      };
+    },
+  };
+}
+
+/** Every reference the lab can set beside a run, in the order they are shown. */
+export const referenceRules: ReferenceRule[] = [
+  {
+    method: "Erlang B",
+    limits: "always interactive (O(N), N <= 10^5 in scenarios)",
+    applies: (s, f) => ({
+      exact: (s.arrivals.process === "poisson" || (s.arrivals.process === "renewal" && s.arrivals.interarrival.law === "exponential")) && f.pureLoss,
+      assumptions: "Poisson arrivals at the same mean offered traffic, any holding-time law (insensitivity), blocked calls cleared, no waiting",
+    }),
+    compute: (_, f) => {
+      const b = tt.erlangB(f.n, f.traffic);
+      return { callCongestion: b, timeCongestion: b, carriedTraffic: f.traffic * (1 - b) };
+    },
+  },
+  {
+    method: "Engset",
+    limits: "always interactive (O(min(N, S)))",
+    applies: (s, f) =>
+      s.arrivals.process === "finite-source" && !f.waiting
+        ? { exact: !f.retrying, assumptions: "finite sources with exponential idle times, any holding-time law (insensitivity), blocked calls return to idle" }
+        : undefined,
+    compute: (s, f) => {
+      const a = s.arrivals as Extract<Scenario["arrivals"], { process: "finite-source" }>;
+      const e = tt.engset({ sources: a.sources, servers: f.n, idleRate: a.idleRate, meanHolding: f.h });
+      return { callCongestion: e.callCongestion, timeCongestion: e.timeCongestion, carriedTraffic: e.carriedTraffic };
+    },
+  },
+  {
+    method: "GI/M/N/N (Palm-Takacs)",
+    limits: `interactive up to N × transform cost = ${tt.INTERACTIVE_RENEWAL_WORK} (closed-form laws cost 1, lognormal/Weibull/Pareto 400, empirical one per sample)`,
+    interactiveWork: tt.INTERACTIVE_RENEWAL_WORK,
+    work: (s, f) => (s.arrivals.process === "renewal" ? tt.renewalWork(f.n, s.arrivals.interarrival) : 0),
+    applies: (s, f) =>
+      s.arrivals.process === "renewal" && !f.waiting
+        ? { exact: f.exponentialHolding && !f.retrying, assumptions: `renewal arrivals (${s.arrivals.interarrival.law} interarrival law), exponential holding, blocked calls cleared` }
+        : undefined,
+    compute: (s, f) => {
+      const a = s.arrivals as Extract<Scenario["arrivals"], { process: "renewal" }>;
+      const r = tt.renewalLossSystem({ servers: f.n, interarrival: a.interarrival, meanHolding: f.h });
+      return { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic };
+    },
+  },
+  {
+    method: "MMPP/M/N/N exact chain",
+    limits: `interactive up to (N + 1) × phases³ = ${tt.INTERACTIVE_MMPP_WORK}; phases × (N + 1) <= ${tt.MAX_MMPP_STATES}`,
+    interactiveWork: tt.INTERACTIVE_MMPP_WORK,
+    work: (s, f) => (f.n + 1) * (mmppOf(s.arrivals)?.rates.length ?? 1) ** 3,
+    applies: (s, f) =>
+      mmppOf(s.arrivals) && !f.waiting
+        ? { exact: f.exponentialHolding && !f.retrying, assumptions: "Markov-modulated Poisson arrivals, exponential holding, blocked calls cleared" }
+        : undefined,
+    compute: (s, f) => {
+      const m = mmppOf(s.arrivals)!;
+      const r = tt.mmppLossSystem({ servers: f.n, rates: m.rates, switching: m.switching, meanHolding: f.h });
+      return { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic };
+    },
+  },
+  {
+    method: "MMPP/M/N/N+Q exact chain",
+    limits: `interactive up to (N + Q + 1) × phases³ = ${tt.INTERACTIVE_MMPP_WORK}; phases × (N + Q + 1) <= ${tt.MAX_MMPP_STATES}`,
+    interactiveWork: tt.INTERACTIVE_MMPP_WORK,
+    work: (s, f) => (f.n + s.waitingPositions + 1) * (mmppOf(s.arrivals)?.rates.length ?? 1) ** 3,
+    applies: (s, f) =>
+      mmppOf(s.arrivals) && f.waiting && !f.retrying && exponentialOrUndefined(s.patience)
+        ? { exact: f.exponentialHolding, assumptions: "Markov-modulated Poisson arrivals, exponential holding, FIFO waiting with Q positions, exponential patience if any, no retrials" }
+        : undefined,
+    compute: (s, f) => {
+      const m = mmppOf(s.arrivals)!;
+      const r = tt.mmppQueueSystem({
+        servers: f.n,
+        waitingPositions: s.waitingPositions,
+        rates: m.rates,
+        switching: m.switching,
+        meanHolding: f.h,
+        meanPatience: s.patience ? tt.lawMean(s.patience) : undefined,
+      });
+      return {
+        callCongestion: r.callCongestion,
+        timeCongestion: r.timeCongestion,
+        carriedTraffic: r.carriedTraffic,
+        lossProbability: r.lossProbability,
+        waitingProbability: r.waitingProbability,
+        meanWait: r.meanWait,
+        meanWaiting: r.meanQueueLength,
+        abandonmentProbability: r.abandonmentProbability,
+      };
+    },
+  },
+  {
+    method: "batch Poisson exact chain",
+    limits: `geometric sizes O(N + Q); other laws interactive up to (N + Q + 1) × largest batch = ${tt.INTERACTIVE_BATCH_WORK}`,
+    interactiveWork: tt.INTERACTIVE_BATCH_WORK,
+    work: (s) => (s.arrivals.process === "batch" ? tt.batchWork(s.servers, s.waitingPositions, s.arrivals.batchSize) : 0),
+    applies: (s, f) =>
+      s.arrivals.process === "batch" && !f.retrying && exponentialOrUndefined(s.patience)
+        ? {
+            exact: f.exponentialHolding,
+            assumptions: `Poisson batches (${s.arrivals.batchSize.law} sizes), exponential holding, ${s.arrivals.admission} admission${f.waiting ? ", FIFO waiting positions, exponential patience if any" : ""}, refused calls cleared`,
+          }
+        : undefined,
+    compute: (s, f) => {
+      const a = s.arrivals as Extract<Scenario["arrivals"], { process: "batch" }>;
+      const r = tt.batchLossSystem({
+        servers: f.n,
+        waitingPositions: s.waitingPositions,
+        traffic: f.traffic,
+        batchSize: a.batchSize,
+        admission: a.admission,
+        meanHolding: f.h,
+        meanPatience: s.patience ? tt.lawMean(s.patience) : undefined,
+      });
+      const values: Values = { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic, batchCongestion: r.batchCongestion };
+      if (f.waiting)
+        Object.assign(values, {
+          lossProbability: r.lossProbability,
+          waitingProbability: r.waitingProbability,
+          meanWait: r.meanWait,
+          meanWaiting: r.meanQueueLength,
+          abandonmentProbability: r.abandonmentProbability,
+        });
+      return values;
+    },
+  },
+  {
+    method: "overflow network exact chain",
+    limits: `interactive while (N + 1) × K³ <= ${INTERACTIVE_OVERFLOW_WORK} (K = Π(nᵢ + 1)); direct solve up to ${tt.MAX_OVERFLOW_WORK}, Gauss–Seidel beyond, up to ${tt.MAX_OVERFLOW_STATES} states`,
+    interactiveWork: INTERACTIVE_OVERFLOW_WORK,
+    work: (s, f) => (s.arrivals.process === "overflow" ? (f.n + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 : 0),
+    applies: (s, f) =>
+      s.arrivals.process === "overflow" && !f.waiting
+        ? {
+            exact: f.exponentialHolding && !f.retrying,
+            assumptions: "Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, blocked calls cleared",
+          }
+        : undefined,
+    compute: (s, f) => {
+      const a = s.arrivals as Extract<Scenario["arrivals"], { process: "overflow" }>;
+      const o = tt.overflowLossSystem({ primaries: a.primaries, servers: f.n });
+      return { callCongestion: o.blocking, timeCongestion: o.timeCongestion, carriedTraffic: o.overflowOffered - o.overflowLost };
+    },
+  },
+  {
+    method: (s) =>
+      s.retrials && s.retrials.persistence > 0 ? "retrial model exact chain" : s.arrivals.process === "finite-source" ? "Engset with waiting positions" : "M/M/N/N+Q",
+    limits: `interactive up to ${tt.INTERACTIVE_MARKOV_STATES} states (orbit levels × (N + Q + 1)); at most ${tt.MAX_MARKOV_STATES}; an unbounded orbit is truncated where the neglected mass is below ${tt.TRUNCATION_BOUND}`,
+    interactiveWork: tt.INTERACTIVE_MARKOV_STATES,
+    work: (s, f) => {
+      const model = markovModel(s, f);
+      return model ? tt.markovSystemStates(model) : 0;
+    },
+    applies: (s, f) => {
+      if (!markovModel(s, f)) return undefined;
+      const parts = [
+        s.arrivals.process === "poisson" ? "Poisson fresh calls" : "finite sources with exponential idle times",
+        "exponential holding",
+        f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ", no abandonment"}` : "no waiting",
+        f.retrying ? "refused calls retry with the persistence after exponential delays, no attempt limit" : "no retrials",
+      ];
+      return { exact: f.exponentialHolding, assumptions: parts.join(", ") };
+    },
+    compute: (s, f) => {
+      const r = tt.solveMarkovSystem(markovModel(s, f)!);
+      const values: Values = {
+        callCongestion: r.firstAttemptBlocking,
+        timeCongestion: r.timeCongestion,
+        carriedTraffic: r.carriedTraffic,
+        lossProbability: r.lossProbability,
+      };
+      if (f.retrying)
+        Object.assign(values, { attemptCongestion: r.attemptCongestion, attemptsPerCall: r.attemptsPerCall, meanRetrying: r.meanOrbit, truncationBound: r.neglectedMass });
+      if (f.waiting)
+        Object.assign(values, {
+          waitingProbability: r.waitingProbability,
+          meanWait: r.meanWait,
+          meanWaiting: r.meanQueueLength,
+          abandonmentProbability: r.abandonmentProbability,
+        });
+      return values;
+    },
+  },
+  peakedRule("Wilkinson equivalent random"),
+  peakedRule("Hayward"),
+  {
+    method: "extended Erlang B",
+    limits: "always interactive (O(N) per fixed-point step)",
+    applies: (s, f) =>
+      f.retrying && !f.waiting
+        ? { exact: false, assumptions: "Poisson fresh calls; a refused attempt returns with probability = persistence, long after, as Poisson traffic; no attempt limit" }
+        : undefined,
+    compute: (s, f) => {
+      const e = tt.extendedErlangB({ servers: f.n, traffic: f.traffic, persistence: s.retrials!.persistence });
+      // With all attempts Poisson (its assumption) fresh calls and retries see the same blocking.
+      return { callCongestion: e.blocking, attemptCongestion: e.blocking, lossProbability: e.probabilityFreshCallLost, carriedTraffic: e.carriedTraffic };
+    },
+  },
+  timeVaryingRule("pointwise stationary approximation"),
+  timeVaryingRule("modified offered load approximation"),
+];
+
+/**
+ * Why a scenario has no exact reference, first matching reason. Each names what makes the exact
+ * solution out of reach, so a reader can tell a mathematical limit from a missing method.
+ */
+export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: string }> = [
+  {
+    when: (s) => s.arrivals.process === "time-varying",
+    reason:
+      "the load is periodic, not stationary: there is no equilibrium blocking, only a cycle of values; PSA and MOL are the approximations shown (an exact periodic solution of the forward equations is not implemented)",
+  },
+  {
+    when: (_, f) => !f.exponentialHolding,
+    reason:
+      "holding times are not exponential and the model is not insensitive to the holding law (only Erlang B and Engset loss systems are): every call's elapsed holding time is part of the state, so no finite Markov chain describes it",
+  },
+  {
+    when: (s, f) => f.retrying && s.retrials!.delay.law !== "exponential",
+    reason: "retry delays are not exponential: every retrying call's elapsed delay is part of the state, so the orbit has no finite Markov description",
+  },
+  {
+    when: (s, f) => f.retrying && s.retrials!.maxAttempts !== undefined,
+    reason:
+      "an attempt limit makes retrying calls differ by the attempts they have used: the exact chain needs one orbit dimension per attempt, (orbit + limit − 1 choose limit − 1) states per orbit size, beyond any exact solve except tiny cases",
+  },
+  {
+    when: (s) => s.patience !== undefined && s.patience.law !== "exponential",
+    reason:
+      "patience is not exponential: the waiting calls' elapsed waits are part of the state; the known exact M/M/N+G solution (Baccelli & Hébuterne 1981) needs an unlimited waiting room, not Q positions",
+  },
+  {
+    when: (s, f) => s.arrivals.process === "renewal" && (f.retrying || f.waiting),
+    reason:
+      "renewal arrivals with a waiting room or retrials: the time since the last arrival is part of the state (no finite Markov chain for a general interarrival law; GI/M/N/N+Q by an embedded chain is not implemented)",
+  },
+  {
+    when: (s, f) => f.retrying && (mmppOf(s.arrivals) !== undefined || s.arrivals.process === "batch" || s.arrivals.process === "overflow"),
+    reason: "retrials on top of MMPP, batch or overflow arrivals: a three-dimensional chain (arrival phase, calls, orbit); not implemented",
+  },
+  {
+    when: (s, f) => s.arrivals.process === "overflow" && f.waiting,
+    reason: "overflow traffic with a waiting room: the chain on (primary states, calls in the group) is not implemented",
+  },
+];
+
+export interface ReferenceOptions {
+  /** Answering an interactive request: cases above a rule's interactive size come back flagged `background`, not computed. */
+  interactive?: boolean;
+}
+
+/**
+ * Analytic references for the scenario, one per applicable rule, in registry order; then, if none
+ * is exact, an entry whose `unavailable` says why. Pure; each rule is bounded by its size limits.
+ */
+export function referencesFor(scenario: Scenario, options: ReferenceOptions = {}): Reference[] {
+  const f = factsOf(scenario);
+  const out: Reference[] = [];
+  for (const rule of referenceRules) {
+    const fit = rule.applies(scenario, f);
+    if (!fit) continue;
+    const method = typeof rule.method === "string" ? rule.method : rule.method(scenario);
+    const base = { method, assumptions: fit.assumptions, exact: fit.exact };
+    const work = rule.work?.(scenario, f) ?? 0;
+    if (options.interactive && rule.interactiveWork !== undefined && work > rule.interactiveWork) {
+      out.push({ ...base, background: true, unavailable: `too large for an interactive answer (${Number(work.toPrecision(3))} > ${rule.interactiveWork} work units; ${rule.limits}); computed with the run` });
       continue;
     }
-    const m = tt.overflowMoments({ traffic: p.traffic, servers: p.servers });
-    mean += m.mean;
-    variance += m.variance;
-  }
-  return { mean, variance };
-}
-
-/** Solves x A = b for a small dense matrix (Gaussian elimination with partial pivoting). */
-function solveRowSystem(a: number[][], b: number[]): number[] {
-  const k = b.length;
-  // x A = b  <=>  A^T x^T = b^T
-  const m = Array.from({ length: k }, (_, i) => [...Array.from({ length: k }, (_, j) => a[j][i]), b[i]]);
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let r = c + 1; r < k; r++) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
-    [m[c], m[p]] = [m[p], m[c]];
-    for (let r = 0; r < k; r++) {
-      if (r === c) continue;
-      const f = m[r][c] / m[c][c];
-      for (let j = c; j <= k; j++) m[r][j] -= f * m[c][j];
+    try {
+      out.push({ ...base, ...rule.compute(scenario, f) });
+    } catch (error) {
+      out.push({ ...base, exact: false, unavailable: error instanceof Error ? error.message : String(error) });
     }
   }
-  return m.map((row, i) => row[k] / row[i]);
-}
-
-/**
- * Mean and variance of the busy servers an MMPP would hold on an infinite group with exponential
- * holding (rate mu): with m_j = E[N; J = j] and f_j = E[N(N-1); J = j], the stationary moment
- * equations are m (mu I - Q) = pi Lambda and f (2 mu I - Q) = 2 m Lambda.
- */
-export function mmppOfferedMoments(rates: number[], switching: number[][], meanHolding: number): { mean: number; variance: number } {
-  const k = rates.length;
-  const mu = 1 / meanHolding;
-  const pi = stationaryOfGenerator(switching);
-  const shifted = (c: number) =>
-    Array.from({ length: k }, (_, i) =>
-      Array.from({ length: k }, (_, j) => {
-        if (i !== j) return -switching[i][j];
-        let out = 0;
-        for (let l = 0; l < k; l++) if (l !== i) out += switching[i][l];
-        return c + out;
-      }),
-    );
-  const m = solveRowSystem(shifted(mu), pi.map((p, i) => p * rates[i]));
-  const f = solveRowSystem(shifted(2 * mu), m.map((x, i) => 2 * x * rates[i]));
-  const mean = m.reduce((a, b) => a + b, 0);
-  return { mean, variance: f.reduce((a, b) => a + b, 0) + mean - mean * mean };
-}
-
-/** Batch Poisson on an infinite group with exponential holding: Z = (1 + E[X^2]/E[X]) / 2 (Campbell's theorem). */
-export function batchPeakedness(law: BatchSizeLaw): number {
-  let m1 = 0;
-  let m2 = 0;
-  switch (law.law) {
-    case "geometric":
-      m1 = law.mean;
-      m2 = law.mean * (law.mean - 1) + law.mean * law.mean; // var = m (m - 1)
-      break;
-    case "fixed":
-      m1 = law.value;
-      m2 = law.value * law.value;
-      break;
-    case "uniform":
-      for (let x = law.min; x <= law.max; x++) {
-        m1 += x;
-        m2 += x * x;
-      }
-      m1 /= law.max - law.min + 1;
-      m2 /= law.max - law.min + 1;
-      break;
-    case "empirical":
-      law.values.forEach((x, i) => {
-        m1 += x * law.probabilities[i];
-        m2 += x * x * law.probabilities[i];
-      });
-      break;
-  }
-  return (1 + m2 / m1) / 2;
-}
-
-/** Mean fresh-call rate offered to the group under study (for overflow: the overflow rate). */
-export function meanCallRate(scenario: Scenario): number {
-  const a = scenario.arrivals;
-  const h = lawMean(scenario.holding);
-  switch (a.process) {
-    case "poisson":
-      return a.rate;
-    case "mmpp":
-    case "on-off": {
-      const m = mmppOf(a)!;
-      const pi = stationaryOfGenerator(m.switching);
-      return pi.reduce((s, p, i) => s + p * m.rates[i], 0);
-    }
-    case "renewal":
-      return 1 / lawMean(a.interarrival);
-    case "batch":
-      return a.rate * batchMean(a.batchSize);
-    case "overflow":
-      return overflowStreamMoments(a.primaries).mean / h;
-    case "finite-source": {
-      // Engset's offered traffic S beta / (1 + beta): what the sources would offer with no blocking.
-      const beta = a.idleRate * h;
-      return (a.sources * beta) / (1 + beta) / h;
-    }
-    case "time-varying": {
-      const cycle = a.profile.reduce((s, p) => s + p.duration, 0);
-      return a.profile.reduce((s, p) => s + p.duration * p.rate, 0) / cycle;
-    }
-  }
-}
-
-/** Mean offered traffic in erlangs before retrials; for overflow, the primaries' total traffic. */
-export function offeredTraffic(scenario: Scenario): number {
-  if (scenario.arrivals.process === "overflow") return scenario.arrivals.primaries.reduce((s, p) => s + p.traffic, 0);
-  return meanCallRate(scenario) * lawMean(scenario.holding);
-}
-
-function attempt(method: string, assumptions: string, exact: boolean, compute: () => Omit<Reference, "method" | "assumptions" | "exact">): Reference {
-  try {
-    return { method, assumptions, exact, ...compute() };
-  } catch (error) {
-    return { method, assumptions, exact: false, unavailable: error instanceof Error ? error.message : String(error) };
-  }
-}
-
-/** Laws the GI/M/N/N solver accepts (a subset of the scenario's laws). */
-function renewalLaw(law: Law): tt.InterarrivalLaw | undefined {
-  switch (law.law) {
-    case "exponential":
-      return { law: "exponential", mean: law.mean };
-    case "erlang":
-      return { law: "erlang", k: law.k, mean: law.mean };
-    case "deterministic":
-      return { law: "deterministic", value: law.value };
-    case "gamma":
-      return { law: "gamma", mean: law.mean, cv: law.cv };
-    case "hyperexponential":
-      return law.probabilities ? { law: "hyperexponential", probabilities: law.probabilities, means: law.means } : { law: "hyperexponential", mean: law.mean, scv: law.scv };
-    default:
-      return undefined;
-  }
-}
-
-/**
- * Analytic references for the scenario: Erlang B at the same mean offered traffic always, then
- * the most specific method that applies. `exact` is true only when the scenario meets all of the
- * method's assumptions (warm-up and finite run length aside).
- */
-export function referencesFor(scenario: Scenario): Reference[] {
-  const n = scenario.servers;
-  const a = scenario.arrivals;
-  const h = lawMean(scenario.holding);
-  const exponentialHolding = scenario.holding.law === "exponential";
-  const retrying = scenario.retrials !== undefined && scenario.retrials.persistence > 0;
-  const pureLoss = scenario.waitingPositions === 0 && !retrying;
-  const lossOnly = scenario.waitingPositions === 0; // the loss-system methods need it
-  const traffic = meanCallRate(scenario) * h;
-  const out: Reference[] = [];
-
-  out.push(
-    attempt(
-      "Erlang B",
-      "Poisson arrivals at the same mean offered traffic, any holding-time law (insensitivity), blocked calls cleared, no waiting",
-      (a.process === "poisson" || (a.process === "renewal" && a.interarrival.law === "exponential")) && pureLoss,
-      () => {
-        const b = tt.erlangB(n, traffic);
-        return { callCongestion: b, timeCongestion: b, carriedTraffic: traffic * (1 - b) };
-      },
-    ),
-  );
-
-  if (a.process === "finite-source" && scenario.waitingPositions === 0) {
-    out.push(
-      attempt("Engset", "finite sources with exponential idle times, any holding-time law (insensitivity), blocked calls return to idle", !retrying, () => {
-        const e = tt.engset({ sources: a.sources, servers: n, idleRate: a.idleRate, meanHolding: h });
-        return { callCongestion: e.callCongestion, timeCongestion: e.timeCongestion, carriedTraffic: e.carriedTraffic };
-      }),
-    );
-  }
-
-  if (a.process === "renewal" && lossOnly) {
-    const law = renewalLaw(a.interarrival);
-    if (law)
-      out.push(
-        attempt("GI/M/N/N (Palm-Takacs)", "renewal arrivals, exponential holding, blocked calls cleared", exponentialHolding && pureLoss, () => {
-          const r = tt.renewalLossSystem({ servers: n, interarrival: law, meanHolding: h });
-          return { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic };
-        }),
-      );
-  }
-
-  const mmpp = mmppOf(a);
-  if (mmpp && lossOnly) {
-    out.push(
-      attempt("MMPP/M/N/N exact chain", "Markov-modulated Poisson arrivals, exponential holding, blocked calls cleared", exponentialHolding && pureLoss, () => {
-        const m = tt.mmppLossSystem({ servers: n, rates: mmpp.rates, switching: mmpp.switching, meanHolding: h });
-        return { callCongestion: m.callCongestion, timeCongestion: m.timeCongestion, carriedTraffic: m.carriedTraffic };
-      }),
-    );
-  }
-
-  // Peaked streams (MMPP, batches): equivalent random and Hayward on the stream's infinite-group moments.
-  let peaked: { mean: number; variance: number; what: string } | undefined;
-  if (mmpp) peaked = { ...mmppOfferedMoments(mmpp.rates, mmpp.switching, h), what: "MMPP" };
-  if (a.process === "batch") peaked = { mean: traffic, variance: traffic * batchPeakedness(a.batchSize), what: "batch Poisson" };
-  if (peaked && lossOnly && peaked.variance / peaked.mean > 1 + 1e-9) {
-    const { mean, variance, what } = peaked;
-    const z = variance / mean;
-    out.push(
-      attempt("Wilkinson equivalent random", `${what} stream replaced by an overflow stream with the same mean and variance (peakedness ${z.toPrecision(4)} for exponential holding)`, false, () => {
-        const er = tt.equivalentRandom({ mean, variance, servers: n });
-        return { callCongestion: er.blocking, carriedTraffic: mean - (er.lostTraffic ?? 0) };
-      }),
-    );
-    out.push(
-      attempt("Hayward", `peaked stream: B(N/Z, M/Z) with Z = ${z.toPrecision(4)} of the ${what} stream for exponential holding`, false, () => {
-        const hw = tt.haywardBlocking({ mean, variance, servers: n });
-        return { callCongestion: hw.blocking, carriedTraffic: mean - hw.lostTraffic };
-      }),
-    );
-  }
-
-  if (a.process === "batch" && a.batchSize.law === "geometric" && lossOnly) {
-    const batchSize = a.batchSize;
-    out.push(
-      attempt(
-        "batch Poisson exact chain",
-        `Poisson batches with geometric sizes, exponential holding, ${a.admission} admission, blocked calls cleared`,
-        exponentialHolding && pureLoss,
-        () => {
-          const b = tt.batchPoissonLossSystem({ servers: n, traffic, meanBatchSize: batchSize.mean, admission: a.admission });
-          return { callCongestion: b.callCongestion, timeCongestion: b.timeCongestion, carriedTraffic: b.carriedTraffic };
-        },
-      ),
-    );
-  }
-
-  if (a.process === "overflow" && lossOnly) {
-    out.push(
-      attempt(
-        "overflow network exact chain",
-        "Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, blocked calls cleared",
-        exponentialHolding && pureLoss,
-        () => {
-          const o = tt.overflowLossSystem({ primaries: a.primaries, servers: n });
-          return { callCongestion: o.blocking, timeCongestion: o.timeCongestion, carriedTraffic: o.overflowOffered - o.overflowLost };
-        },
-      ),
-    );
-  }
-
-  if (a.process === "overflow" && lossOnly) {
-    const { mean, variance } = overflowStreamMoments(a.primaries);
-    const singlePrimary = a.primaries.length === 1;
-    out.push(
-      attempt(
-        "Wilkinson equivalent random",
-        "overflow stream replaced by the overflow of one Poisson group with the same mean and variance; exponential holding",
-        false,
-        () => {
-          if (variance / mean < 1 + 1e-12) {
-            const b = tt.erlangB(n, mean);
-            return { callCongestion: b };
-          }
-          const er = tt.equivalentRandom({ mean, variance, servers: n });
-          // The group under study sees only overflow calls, so its call congestion is the lost share of that traffic.
-          return { callCongestion: er.blocking, carriedTraffic: mean - (er.lostTraffic ?? 0) };
-        },
-      ),
-    );
-    out.push(
-      attempt("Hayward", "peaked stream: B(N/Z, M/Z) with Z = V/M of the overflow stream; exponential holding", false, () => {
-        const hw = tt.haywardBlocking({ mean, variance, servers: n });
-        return { callCongestion: hw.blocking, carriedTraffic: mean - hw.lostTraffic };
-      }),
-    );
-    if (singlePrimary) out[out.length - 2].assumptions += "; with one primary group it reproduces that group's moments exactly";
-  }
-
-  if (retrying && scenario.waitingPositions === 0) {
-    const r = scenario.retrials!;
-    out.push(
-      attempt(
-        "extended Erlang B",
-        "Poisson fresh calls; a refused attempt returns with probability = persistence, long after, as Poisson traffic; no attempt limit",
-        false,
-        () => {
-          const e = tt.extendedErlangB({ servers: n, traffic, recallFactor: r.persistence });
-          // With all attempts Poisson (its assumption) fresh calls and retries see the same blocking.
-          return { callCongestion: e.blocking, attemptCongestion: e.blocking, lossProbability: e.probabilityFreshCallLost, carriedTraffic: e.carriedTraffic };
-        },
-      ),
-    );
-  }
-
-  if (scenario.waitingPositions > 0) {
-    const q = scenario.waitingPositions;
-    out.push(
-      attempt(
-        "M/M/N/N+Q",
-        "Poisson arrivals, exponential holding, FIFO waiting with Q positions, no abandonment, no retrials",
-        a.process === "poisson" && exponentialHolding && !scenario.patience && !retrying,
-        () => {
-          const f = tt.finiteQueue({ servers: n, traffic, queuePositions: q, meanHolding: h });
-          return {
-            callCongestion: f.timeCongestion, // refused share of arrivals = P(system full) by PASTA
-            timeCongestion: f.probabilityAllServersBusy,
-            carriedTraffic: f.carriedTraffic,
-            lossProbability: f.timeCongestion,
-            waitingProbability: f.probabilityOfWaiting / (1 - f.timeCongestion),
-            meanWait: f.meanWait,
-            meanWaiting: f.meanQueueLength,
-          };
-        },
-      ),
-    );
+  if (!out.some((r) => r.exact && !r.unavailable)) {
+    const limit = exactLimits.find((l) => l.when(scenario, f));
+    if (limit) out.push({ method: "exact reference", assumptions: "none applies to this scenario", exact: false, unavailable: limit.reason });
   }
   return out;
 }

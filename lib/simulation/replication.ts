@@ -1,5 +1,5 @@
 import type { ReplicationStats } from "./engine";
-import { createReplication, type ReplicationLoop } from "./dispatch";
+import { createReplication, enginePathFor, type EnginePath, type ReplicationLoop } from "./dispatch";
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { mser5Cut } from "./estimators";
 import type { Scenario } from "./scenario";
@@ -69,11 +69,13 @@ export class ReplicationJob {
   constructor(
     private readonly scenario: Scenario,
     readonly index: number,
+    /** The loop to run (default: the dispatch rule's); tests pin the reference loop with it. */
+    private readonly path: EnginePath = enginePathFor(scenario),
   ) {
     this.pilot = scenario.run.warmup === "auto";
     const expectedCalls = scenario.run.callsPerReplication ?? (scenario.run.horizon ?? 0) * approximateCallRate(scenario);
     this.traceEvery = Math.max(1, Math.floor(expectedCalls / MSER_OBSERVATIONS));
-    this.current = createReplication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {});
+    this.current = createReplication(scenario, index, this.pilot ? { warmupCalls: 0, traceEvery: this.traceEvery } : {}, path);
   }
 
   advance(maxEvents: number): boolean {
@@ -89,7 +91,7 @@ export class ReplicationJob {
     }
     this.pilot = false;
     // Cutting after `discard` observations starts measuring at trace point `discard`.
-    this.current = createReplication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 });
+    this.current = createReplication(this.scenario, this.index, { warmupCalls: this.current.traceCalls[discard] ?? 0 }, this.path);
     return false;
   }
 

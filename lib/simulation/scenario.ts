@@ -1,7 +1,14 @@
 import { z } from "zod";
-import gammaln from "@stdlib/math-base-special-gammaln";
-import { gthStationary, phasesAreIrreducible } from "../teletraffic/qbd";
-import { erlangB } from "../teletraffic/erlang-b";
+import { phasesAreIrreducible } from "../teletraffic/qbd";
+import { batchSizeSchema, LAW_LIMITS, lawMean, lawSchema, type BatchSizeLaw, type Law } from "../teletraffic/laws";
+import { arrivalEventRate, freshCallRate } from "./traffic";
+
+// One vocabulary of laws with the analytic operations (lib/teletraffic/laws.ts).
+export { batchSizeSchema, lawSchema, type BatchSizeLaw, type Law };
+export { freshCallRate };
+export { batchMean } from "../teletraffic/laws";
+export { lawMean };
+export { lnGamma } from "../teletraffic/numeric";
 
 /**
  * The scenario file shared by UI, API, CLI and worker. Rates and means are in one time
@@ -16,12 +23,12 @@ export const LIMITS = {
   phases: 16,
   primaries: 32,
   profileSegments: 1_000,
-  empiricalValues: 1_000_000,
+  empiricalValues: LAW_LIMITS.empiricalSamples,
   replications: 10_000,
   callsPerReplication: 100_000_000,
   totalCalls: 2_000_000_000,
   maxAttempts: 1_000,
-  batchSize: 10_000,
+  batchSize: LAW_LIMITS.batchSize,
   sources: 1_000_000,
 } as const;
 
@@ -29,99 +36,6 @@ const positive = (what = "must be > 0") => z.number().gt(0, what).finite();
 const nonNegative = () => z.number().min(0, "must be >= 0").finite();
 const positiveInt = (max: number) => z.number().int("must be an integer").min(1, "must be >= 1").max(max, `must be <= ${max}`);
 const probability = () => z.number().min(0, "must be >= 0").max(1, "must be <= 1");
-
-function sumsToOne(values: number[], ctx: z.RefinementCtx, path: (string | number)[]) {
-  const total = values.reduce((a, b) => a + b, 0);
-  if (Math.abs(total - 1) > 1e-9) ctx.addIssue({ code: "custom", path, message: `must sum to 1 (sum is ${total})` });
-}
-
-/** Continuous laws: holding times, interarrival times, retry delays, patience. */
-export const lawSchema = z.discriminatedUnion("law", [
-  z.strictObject({ law: z.literal("exponential"), mean: positive() }),
-  z.strictObject({ law: z.literal("deterministic"), value: positive() }),
-  z.strictObject({ law: z.literal("erlang"), k: positiveInt(1_000), mean: positive() }),
-  z
-    .strictObject({
-      law: z.literal("hyperexponential"),
-      mean: positive().optional(),
-      scv: z.number().finite().min(1, "must be >= 1 (a hyperexponential law is at least as variable as the exponential)").optional(),
-      probabilities: z.array(probability()).min(2, "needs at least 2 branches").max(16, "at most 16 branches").optional(),
-      means: z.array(positive()).min(2, "needs at least 2 branches").max(16, "at most 16 branches").optional(),
-    })
-    .superRefine((v, ctx) => {
-      const balanced = v.mean !== undefined || v.scv !== undefined;
-      const branches = v.probabilities !== undefined || v.means !== undefined;
-      if (balanced === branches) {
-        ctx.addIssue({ code: "custom", path: [], message: "give either {mean, scv} or {probabilities, means}" });
-        return;
-      }
-      if (balanced) {
-        if (v.mean === undefined) ctx.addIssue({ code: "custom", path: ["mean"], message: "required with scv" });
-        if (v.scv === undefined) ctx.addIssue({ code: "custom", path: ["scv"], message: "required with mean" });
-        return;
-      }
-      if (!v.probabilities) return ctx.addIssue({ code: "custom", path: ["probabilities"], message: "required with means" });
-      if (!v.means) return ctx.addIssue({ code: "custom", path: ["means"], message: "required with probabilities" });
-      if (v.probabilities.length !== v.means.length)
-        ctx.addIssue({ code: "custom", path: ["means"], message: `must have as many entries as probabilities (${v.probabilities.length})` });
-      sumsToOne(v.probabilities, ctx, ["probabilities"]);
-    }),
-  z.strictObject({ law: z.literal("lognormal"), mean: positive(), cv: positive() }),
-  z.strictObject({ law: z.literal("gamma"), mean: positive(), cv: positive() }),
-  z
-    .strictObject({
-      law: z.literal("weibull"),
-      mean: positive().optional(),
-      cv: z.number().finite().gt(0.01, "must be > 0.01").lt(50, "must be < 50").optional(),
-      shape: z.number().finite().gt(0.05, "must be > 0.05").lt(100, "must be < 100").optional(),
-      scale: positive().optional(),
-    })
-    .superRefine((v, ctx) => {
-      const byMoments = v.mean !== undefined || v.cv !== undefined;
-      const byParameters = v.shape !== undefined || v.scale !== undefined;
-      if (byMoments === byParameters) return ctx.addIssue({ code: "custom", path: [], message: "give either {mean, cv} or {shape, scale}" });
-      const pairs: Array<[keyof typeof v, keyof typeof v]> = byMoments ? [["mean", "cv"], ["cv", "mean"]] : [["shape", "scale"], ["scale", "shape"]];
-      for (const [field, other] of pairs) if (v[field] === undefined) ctx.addIssue({ code: "custom", path: [field], message: `required with ${other}` });
-    }),
-  z.strictObject({ law: z.literal("pareto"), mean: positive(), shape: z.number().finite().gt(1, "must be > 1 (the mean is infinite otherwise)") }),
-  z
-    .strictObject({ law: z.literal("uniform"), min: nonNegative(), max: positive() })
-    .superRefine((v, ctx) => {
-      if (v.max <= v.min) ctx.addIssue({ code: "custom", path: ["max"], message: "must be > min" });
-    }),
-  z.strictObject({
-    law: z.literal("empirical"),
-    samples: z
-      .array(nonNegative())
-      .min(1, "needs at least 1 sample")
-      .max(LIMITS.empiricalValues, `at most ${LIMITS.empiricalValues} samples`)
-      .refine((s) => s.some((x) => x > 0), "must contain a value > 0"),
-  }),
-]);
-export type Law = z.infer<typeof lawSchema>;
-
-/** Discrete laws on {1, 2, ...} for batch sizes. */
-export const batchSizeSchema = z.discriminatedUnion("law", [
-  z.strictObject({ law: z.literal("geometric"), mean: z.number().finite().min(1, "must be >= 1").max(LIMITS.batchSize, `must be <= ${LIMITS.batchSize}`) }),
-  z.strictObject({ law: z.literal("fixed"), value: positiveInt(LIMITS.batchSize) }),
-  z
-    .strictObject({ law: z.literal("uniform"), min: positiveInt(LIMITS.batchSize), max: positiveInt(LIMITS.batchSize) })
-    .superRefine((v, ctx) => {
-      if (v.max < v.min) ctx.addIssue({ code: "custom", path: ["max"], message: "must be >= min" });
-    }),
-  z
-    .strictObject({
-      law: z.literal("empirical"),
-      values: z.array(positiveInt(LIMITS.batchSize)).min(1, "needs at least 1 value").max(LIMITS.batchSize, `at most ${LIMITS.batchSize} values`),
-      probabilities: z.array(probability()).min(1, "needs at least 1 probability"),
-    })
-    .superRefine((v, ctx) => {
-      if (v.values.length !== v.probabilities.length)
-        ctx.addIssue({ code: "custom", path: ["probabilities"], message: `must have as many entries as values (${v.values.length})` });
-      sumsToOne(v.probabilities, ctx, ["probabilities"]);
-    }),
-]);
-export type BatchSizeLaw = z.infer<typeof batchSizeSchema>;
 
 const rateMatrix = z.array(z.array(nonNegative()));
 
@@ -287,43 +201,6 @@ function checkWorkload(v: z.output<typeof scenarioBase>, ctx: z.RefinementCtx): 
       });
 }
 
-function mmppMeanRate(rates: number[], switching: number[][]): number {
-  const k = rates.length;
-  if (k === 1) return rates[0];
-  const q = new Float64Array(k * k);
-  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) q[i * k + j] = switching[i][j];
-  const pi = gthStationary(q, k);
-  return pi ? rates.reduce((s, r, i) => s + r * pi[i], 0) : Math.max(...rates);
-}
-
-/** Mean fresh-call rate at the group under study with no blocking (overflow: the overflow rate). */
-export function freshCallRate(a: Arrivals, meanHolding: number): number {
-  switch (a.process) {
-    case "poisson":
-      return a.rate;
-    case "mmpp":
-      return mmppMeanRate(a.rates, a.switching);
-    case "on-off":
-      return (a.onRate * a.meanOn) / (a.meanOn + a.meanOff);
-    case "renewal":
-      return 1 / lawMean(a.interarrival);
-    case "batch":
-      return a.rate * batchMean(a.batchSize);
-    case "overflow":
-      return a.primaries.reduce((s, p) => s + p.traffic * erlangB(p.servers, p.traffic), 0) / meanHolding;
-    case "finite-source":
-      return (a.sources * a.idleRate) / (1 + a.idleRate * meanHolding);
-    case "time-varying":
-      return a.profile.reduce((s, p) => s + p.rate * p.duration, 0) / a.profile.reduce((s, p) => s + p.duration, 0);
-  }
-}
-
-/** Fresh arrivals per time unit that cost work: for overflow every primary-group arrival counts. */
-function arrivalEventRate(a: Arrivals, meanHolding: number): number {
-  if (a.process === "overflow") return a.primaries.reduce((s, p) => s + p.traffic, 0) / meanHolding;
-  return freshCallRate(a, meanHolding);
-}
-
 export type Scenario = z.infer<typeof scenarioSchema>;
 export type ScenarioInput = z.input<typeof scenarioSchema>;
 
@@ -405,39 +282,3 @@ export function parseScenario(json: unknown): Scenario {
   throw new ScenarioError(`${where}: ${issue.message}${more}`, where, scenarioFieldErrors(result.error.issues));
 }
 
-/** Mean offered traffic in erlangs at the group under study's entry, before retrials. */
-export function lawMean(law: Law): number {
-  switch (law.law) {
-    case "exponential":
-    case "erlang":
-    case "lognormal":
-    case "gamma":
-    case "pareto":
-      return law.mean;
-    case "deterministic":
-      return law.value;
-    case "hyperexponential":
-      return law.mean ?? law.probabilities!.reduce((s, p, i) => s + p * law.means![i], 0);
-    case "weibull":
-      return law.mean ?? law.scale! * Math.exp(lnGamma(1 + 1 / law.shape!));
-    case "uniform":
-      return (law.min + law.max) / 2;
-    case "empirical":
-      return law.samples.reduce((a, b) => a + b, 0) / law.samples.length;
-  }
-}
-
-export function batchMean(law: BatchSizeLaw): number {
-  switch (law.law) {
-    case "geometric":
-      return law.mean;
-    case "fixed":
-      return law.value;
-    case "uniform":
-      return (law.min + law.max) / 2;
-    case "empirical":
-      return law.values.reduce((s, v, i) => s + v * law.probabilities[i], 0);
-  }
-}
-
-export const lnGamma: (x: number) => number = gammaln;

@@ -104,7 +104,7 @@ export const warningRules: WarningRule[] = [
       const out: Warning[] = [];
       for (const { field, law, draws } of lawsOf(scenario, aggregate.records)) {
         if (law.law === "pareto" && law.shape <= 2) continue; // said by infinite-variance
-        if (draws < 1) continue;
+        if (!(draws >= 2)) continue; // no draws counted (or one): nothing to judge
         const share = unseenMeanShare(law, draws);
         if (share > UNSEEN_SHARE_LIMIT)
           out.push({

@@ -204,7 +204,7 @@ export function engsetIdleRateForOfferedTraffic(input: EngsetIdleRateInput): Eng
       if (hi - lo > tolerance) throw new TeletrafficConvergenceError(`engsetIdleRateForOfferedTraffic: bracket still ${hi - lo} wide after ${iterations} steps`, iterations);
     }
     // the root lies in [e^lo, e^hi]: relative error of either end at most e^(hi − lo) − 1
-    errorBound = Math.expm1(hi - lo);
+    errorBound = Math.max(Math.expm1(hi - lo), Number.EPSILON);
     beta = Math.exp(0.5 * (lo + hi));
   }
   const result = engset({ sources, servers, idleRate: beta / meanHolding, meanHolding });

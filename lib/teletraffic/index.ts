@@ -13,14 +13,18 @@
  *   erlangC({ servers, traffic, meanHolding?, waitLimit? }): ErlangCResult
  *   finiteQueue({ servers, traffic, queuePositions, meanHolding? }): FiniteQueueResult
  *   engset({ sources, servers, idleRate, meanHolding? }): EngsetResult
- *   engsetIdleRateForOfferedTraffic({ sources, servers, offeredPerSource, meanHolding?, tolerance?, maxIterations? }): EngsetIdleRateResult
+ *   engsetIdleRateForOfferedTraffic({ sources, servers, intendedPerSource | attemptPerSource, meanHolding?, tolerance? }): EngsetIdleRateResult
  *   overflowMoments({ traffic, servers }): OverflowMoments                 // .mean .variance .peakedness
  *   equivalentRandom({ mean, variance, servers? }): EquivalentRandomResult // .equivalentTraffic .equivalentServers (.blocking .lostTraffic with servers)
  *   haywardBlocking({ mean, variance, servers }): HaywardResult            // .blocking .lostTraffic
- *   extendedErlangB({ servers, traffic, recallFactor, tolerance?, maxIterations? }): ExtendedErlangBResult
+ *   extendedErlangB({ servers, traffic, persistence, tolerance?, maxIterations? }): ExtendedErlangBResult
  *   renewalLossSystem({ servers, interarrival: InterarrivalLaw, meanHolding? }): RenewalLossResult   // .callCongestion .timeCongestion
  *   mmppLossSystem({ servers, rates: number[], switching: number[][], meanHolding? }): MmppLossResult
  *   batchPoissonLossSystem({ servers, traffic, meanBatchSize, admission: "partial" | "all-or-nothing" }): BatchLossResult
+ *   batchLossSystem({ servers, waitingPositions?, traffic, meanBatchSize | batchSize, admission, meanHolding?, meanPatience? }): BatchLossResult
+ *   retrialLossSystem({ servers, traffic | sources+idleRate, persistence, meanRetryDelay, waitingPositions?, meanPatience?, meanHolding? }): RetrialLossResult
+ *   patienceQueue / engsetQueue / retrialServers / erlangCServers / engsetServers / mmppQueueSystem
+ *   streamPeakedness({ stream, meanHolding?, servers? }), timeVaryingLoss({ servers, profile, meanHolding? })
  *   overflowLossSystem({ primaries: [{ traffic, servers }], servers }): OverflowLossResult
  *   kaufmanRoberts({ capacity, classes: [{ traffic, bandwidth }] }): KaufmanRobertsResult
  *   analyticOperations[name].evaluate(input): Record<string, unknown>
@@ -109,6 +113,7 @@ export {
   type RenewalLossInput,
   type RenewalLossResult,
 } from "./renewal";
+export { mmppQueueInputSchema, mmppQueueSystem, type MmppQueueInput, type MmppQueueResult } from "./mmpp";
 export { mmppLossInputSchema, mmppLossSystem, MAX_MMPP_STATES, MAX_MMPP_PHASES, INTERACTIVE_MMPP_WORK, type MmppLossInput, type MmppLossResult } from "./mmpp";
 export {
   batchLossInputSchema,

@@ -6,7 +6,7 @@ export const MAX_MMPP_STATES = 200_000;
 /** The simulation engine's limit too (scenario LIMITS.phases). */
 export const MAX_MMPP_PHASES = 16;
 /** (N + 1) × phases³ above which an evaluation is no longer interactive (about 100 ms). */
-export const INTERACTIVE_MMPP_WORK = 20_000_000;
+export const INTERACTIVE_MMPP_WORK = 10_000_000;
 
 /** Phase rates and switching matrix of an MMPP (shape checked by the operations that use it). */
 export const mmppPhasesSchema = z.object({
@@ -102,5 +102,95 @@ export function mmppLossSystem(input: MmppLossInput): MmppLossResult {
       meanBusy,
     },
     "mmppLossSystem",
+  );
+}
+
+export const mmppQueueInputSchema = z
+  .object({
+    servers: z.number().int().min(1).max(MAX_MMPP_STATES - 1).describe("integer number of servers N"),
+    waitingPositions: z.number().int().min(1).max(MAX_MMPP_STATES - 1).describe(`waiting positions Q (FIFO); phases × (N + Q + 1) <= ${MAX_MMPP_STATES}`),
+    ...mmppPhasesSchema.shape,
+    meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time, default 1"),
+    meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a waiting call; default: waits for ever"),
+  })
+  .superRefine((v, ctx) => {
+    if (!mmppShapeIsSquare(v, ctx)) return;
+    const states = v.rates.length * (v.servers + v.waitingPositions + 1);
+    if (states > MAX_MMPP_STATES) ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: `phases × (N + Q + 1) = ${states} exceeds ${MAX_MMPP_STATES} states` });
+  })
+  .describe("MMPP/M/N/N+Q: Markov-modulated Poisson arrivals, N servers, Q waiting positions, optional exponential patience");
+export type MmppQueueInput = z.input<typeof mmppQueueInputSchema>;
+
+export interface MmppQueueResult {
+  method: string;
+  servers: number;
+  waitingPositions: number;
+  offeredTraffic: number;
+  /** share of arrivals refused (servers and waiting positions all taken) */
+  callCongestion: number;
+  /** fraction of time all N servers are busy */
+  timeCongestion: number;
+  carriedTraffic: number;
+  waitingProbability: number;
+  meanWait: number;
+  meanQueueLength: number;
+  abandonmentProbability: number;
+  lossProbability: number;
+}
+
+/**
+ * The same level reduction as mmppLossSystem with the level = calls in the system (0..N+Q) and
+ * departure rate min(k, N) μ + (k − N)⁺ α; waits by Little's law over admitted arrivals.
+ */
+export function mmppQueueSystem(input: MmppQueueInput): MmppQueueResult {
+  const { servers: n, waitingPositions: q, rates, switching, meanHolding, meanPatience } = parseInput(mmppQueueInputSchema, input);
+  const k = rates.length;
+  const phaseRates = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) phaseRates[i * k + l] = i === l ? 0 : switching[i][l];
+  const theta = phaseStationary(phaseRates, k);
+  if (!theta) throw inputError("switching", "the phase process must be irreducible (every phase reachable from every other)");
+  const meanRate = rates.reduce((s, rate, i) => s + rate * theta[i], 0);
+  if (!(meanRate > 0)) throw inputError("rates", "at least one phase needs a rate > 0");
+  const mu = 1 / meanHolding;
+  const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
+  const capacity = n + q;
+  const pi = solveEnvironmentLossChain(capacity, k, phaseRates, Float64Array.from(rates), mu, (j) => Math.min(j, n) * mu + Math.max(0, j - n) * alpha);
+  let refused = 0;
+  let admitted = 0;
+  let admittedToWait = 0;
+  let allBusy = 0;
+  let busy = 0;
+  let queue = 0;
+  for (let j = 0; j <= capacity; j++) {
+    for (let i = 0; i < k; i++) {
+      const x = pi[j * k + i];
+      const arrivals = rates[i] * x;
+      if (j === capacity) refused += arrivals;
+      else {
+        admitted += arrivals;
+        if (j >= n) admittedToWait += arrivals;
+      }
+      if (j >= n) allBusy += x;
+      busy += Math.min(j, n) * x;
+      queue += Math.max(0, j - n) * x;
+    }
+  }
+  const abandonRate = alpha * queue;
+  return assertFiniteResult(
+    {
+      method: "MMPP/M/N/N+Q exact CTMC, block-tridiagonal level reduction",
+      servers: n,
+      waitingPositions: q,
+      offeredTraffic: meanRate * meanHolding,
+      callCongestion: refused / meanRate,
+      timeCongestion: allBusy,
+      carriedTraffic: busy,
+      waitingProbability: admitted > 0 ? admittedToWait / admitted : 0,
+      meanWait: admitted > 0 ? queue / admitted : 0,
+      meanQueueLength: queue,
+      abandonmentProbability: admitted > 0 ? abandonRate / admitted : 0,
+      lossProbability: Math.min(1, (refused + abandonRate) / meanRate),
+    },
+    "mmppQueueSystem",
   );
 }

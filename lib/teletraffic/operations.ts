@@ -37,7 +37,7 @@ import {
 import { peakednessInputSchema, streamPeakedness } from "./peakedness";
 import { INTERACTIVE_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
 import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
-import { INTERACTIVE_MMPP_WORK } from "./mmpp";
+import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
 import { kaufmanRoberts, kaufmanRobertsInputSchema } from "./multi-rate";
 
@@ -116,6 +116,7 @@ export const analyticOperations = {
     `interactive up to N × transform cost ${INTERACTIVE_RENEWAL_WORK} (closed forms cost 1, lognormal/Weibull/Pareto 400, empirical one per sample); at most ${MAX_RENEWAL_WORK}`,
   ),
   "mmpp-loss": operation("Markov-modulated Poisson arrivals (1–16 phases) on N servers: exact call and time congestion", mmppLossInputSchema, mmppLossSystem, `interactive up to (N + 1) × phases³ = ${INTERACTIVE_MMPP_WORK}; phases × (N + 1) <= 200 000`),
+  "mmpp-queue": operation("Markov-modulated Poisson arrivals with waiting positions (and optional patience): exact loss, waiting and abandonment", mmppQueueInputSchema, mmppQueueSystem, `interactive up to (N + Q + 1) × phases³ = ${INTERACTIVE_MMPP_WORK}; phases × (N + Q + 1) <= 200 000`),
   "batch-loss": operation(
     "batch Poisson arrivals, any batch-size law, partial or all-or-nothing, optional waiting room: exact per call and per batch",
     batchLossInputSchema,

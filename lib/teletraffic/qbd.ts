@@ -18,6 +18,8 @@ export function solveEnvironmentLossChain(
   phaseRates: Float64Array,
   upRates: Float64Array,
   mu: number,
+  /** departure rate at level j (default j μ; a waiting room with patience: min(j, N) μ + (j − N)⁺ α) */
+  death: (j: number) => number = (j) => j * mu,
 ): Float64Array {
   const k = phases;
   const n = servers;
@@ -32,9 +34,9 @@ export function solveEnvironmentLossChain(
     // M_j = -(D_j + (j+1) μ R_{j+1}) is an M-matrix with row sums exactly j μ (because (j+1) μ R_{j+1} 1 = λ);
     // its diagonal is rebuilt from the off-diagonals and that slack, so no subtraction ever occurs (GTH idea).
     const next = (j + 1) * kk;
-    const c = (j + 1) * mu;
+    const c = death(j + 1);
     for (let i = 0; i < k; i++) {
-      slack[i] = j * mu;
+      slack[i] = death(j);
       for (let l = 0; l < k; l++) off[i * k + l] = i === l ? 0 : phaseRates[i * k + l] + (j < n ? c * r[next + i * k + l] : 0);
     }
     factorMMatrix(off, slack, factor, k);
@@ -50,7 +52,7 @@ export function solveEnvironmentLossChain(
   }
   // Level 0: π_0 G = 0 with G = D_0 + μ R_1 a generator; GTH on its off-diagonal rates.
   const g = new Float64Array(kk);
-  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) if (i !== l) g[i * k + l] = phaseRates[i * k + l] + (n > 0 ? mu * r[kk + i * k + l] : 0);
+  for (let i = 0; i < k; i++) for (let l = 0; l < k; l++) if (i !== l) g[i * k + l] = phaseRates[i * k + l] + (n > 0 ? death(1) * r[kk + i * k + l] : 0);
   const pi0 = gthStationary(g, k);
   if (!pi0) throw new Error("level-0 generator is reducible");
   const pi = new Float64Array((n + 1) * k);

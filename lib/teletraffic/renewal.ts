@@ -8,7 +8,7 @@ export const MAX_RENEWAL_SERVERS = 1_000_000;
 /** Beyond this the transform at j μ rounds to 1 and ln(1 - φ) loses all digits. */
 export const MAX_RENEWAL_TRAFFIC = 10_000_000;
 /** servers × transform cost above which an evaluation is no longer interactive (about 100 ms). */
-export const INTERACTIVE_RENEWAL_WORK = 2_000_000;
+export const INTERACTIVE_RENEWAL_WORK = 1_000_000;
 /** Hard bound on servers × transform cost (about 10 s). */
 export const MAX_RENEWAL_WORK = 200_000_000;
 

@@ -129,8 +129,16 @@ function solveCapped(model: MarkovSystemModel, cap: number): Float64Array {
   const solveRowK = (yK: number, out: Float64Array, offset: number) => {
     out[offset + kMax] = yK;
     let next = yK;
+    let head = yK; // y_K as currently scaled
     for (let i = kMax - 1; i >= 0; i--) {
-      const v = (i + 1 < kMax ? next * mSub[i + 1] : 0) + yK * mK[i];
+      let v = (i + 1 < kMax ? next * mSub[i + 1] : 0) + head * mK[i];
+      if (v > 1e250) {
+        // Only the level-0 solve (y_K = 1, relative to the full state) can grow this far: the
+        // entries of R are bounded by λp / (oθ). Rescale what is done; the caller normalises.
+        for (let l = i + 1; l <= kMax; l++) out[offset + l] *= 1e-250;
+        head *= 1e-250;
+        v *= 1e-250;
+      }
       out[offset + i] = v;
       next = v;
     }

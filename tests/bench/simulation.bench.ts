@@ -1,51 +1,138 @@
-// Simulation engine throughput: events per second on one core (plus one 2-thread figure).
-// Prints figures only; speed targets live here, never in timed tests.
-import { parseScenario, Replication, runScenario, type ScenarioInput } from "../../lib/simulation/node";
+// Simulation engine speed, per arrival kind, as ratios measured in this same run: to the reference
+// event loop (engine.ts, plain JavaScript), and to a C event loop of the same model (c-loop.c,
+// compiled here with gcc -O2 when a compiler is present). Prints figures only; speed targets live
+// here, never in timed tests. Goals (issue #11): every arrival kind >= 0.65x the C loop (engine
+// alone), the whole command-line process >= 0.6x, worker pool start-up <= 0.3 s, 2 threads >= 1.8x one.
+import { spawnSync } from "node:child_process";
+import { mkdirSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { bundleWorkers, defaultBundleDir } from "../../lib/ops/bundle";
+import { createReplication, enginePathFor, type EnginePath } from "../../lib/simulation/dispatch";
+import { parseScenario, runScenario, ThreadRunner, type Scenario, type ScenarioInput } from "../../lib/simulation/node";
+
+const root = path.resolve(__dirname, "../..");
+const output = path.join(root, "tests/.output");
+const exp1 = { law: "exponential", mean: 1 } as const;
 
 interface Case {
+  /** Case name in c-loop.c (the same model and parameters there). */
   name: string;
-  scenario: ScenarioInput;
-  generalLoop?: boolean;
+  label: string;
+  model: Omit<ScenarioInput, "run">;
+  calls: number;
+  warmupCalls?: number;
 }
-
-const exp1 = { law: "exponential", mean: 1 } as const;
-const run = (calls: number) => ({ seed: 1, replications: 2, callsPerReplication: calls / 2 });
 
 const cases: Case[] = [
-  { name: "M/M/30/30, 20 E, 20 M calls (fast path)", scenario: { servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: exp1, run: run(20e6) } },
-  { name: "M/M/30/30, 20 E, 20 M calls (general loop)", scenario: { servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: exp1, run: run(20e6) }, generalLoop: true },
-  { name: "M/G/30/30 lognormal cv 1, 20 E, 20 M calls", scenario: { servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: { law: "lognormal", mean: 1, cv: 1 }, run: run(20e6) } },
-  { name: "on-off arrivals, 30 servers, 10 M calls", scenario: { servers: 30, arrivals: { process: "on-off", onRate: 40, meanOn: 1, meanOff: 1 }, holding: exp1, run: run(10e6) } },
+  { name: "poisson", label: "Poisson, M/M/30/30 at 20 E", model: { servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: exp1 }, calls: 3e6 },
+  { name: "lognormal", label: "lognormal holding cv 1, 30 servers, 20 E", model: { servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: { law: "lognormal", mean: 1, cv: 1 } }, calls: 3e6 },
+  { name: "h2", label: "H2 interarrivals scv 4, 30 servers, 20 E", model: { servers: 30, arrivals: { process: "renewal", interarrival: { law: "hyperexponential", mean: 0.05, scv: 4 } }, holding: exp1 }, calls: 3e6 },
+  { name: "on-off", label: "on-off 40/s, 1 s on, 1 s off, 30 servers", model: { servers: 30, arrivals: { process: "on-off", onRate: 40, meanOn: 1, meanOff: 1 }, holding: exp1 }, calls: 3e6 },
   {
-    name: "retrials p=0.7, 30 servers, 24 E, 10 M calls",
-    scenario: { servers: 30, arrivals: { process: "poisson", rate: 24 }, holding: exp1, retrials: { persistence: 0.7, delay: { law: "exponential", mean: 0.5 }, maxAttempts: 10 }, run: run(10e6) },
+    name: "mmpp",
+    label: "3-phase MMPP, 30 servers",
+    model: { servers: 30, arrivals: { process: "mmpp", rates: [10, 20, 40], switching: [[0, 0.5, 0.2], [0.4, 0, 0.4], [0.3, 0.6, 0]] }, holding: exp1 },
+    calls: 3e6,
   },
-  { name: "M/M/10000/10000, 9000 E, 10 M calls", scenario: { servers: 10_000, arrivals: { process: "poisson", rate: 9_000 }, holding: exp1, run: { ...run(10e6), warmupCalls: 100_000 } } },
+  { name: "retrials", label: "retrials p 0.7, delay 0.5, 30 servers, 24 E", model: { servers: 30, arrivals: { process: "poisson", rate: 24 }, holding: exp1, retrials: { persistence: 0.7, delay: { law: "exponential", mean: 0.5 }, maxAttempts: 10 } }, calls: 3e6 },
+  { name: "overflow", label: "overflow of 20 E/20 and 12 E/12 onto 20", model: { servers: 20, arrivals: { process: "overflow", primaries: [{ traffic: 20, servers: 20 }, { traffic: 12, servers: 12 }] }, holding: exp1 }, calls: 3e5 },
+  { name: "large-n", label: "large N, M/M/10000/10000 at 9000 E", model: { servers: 10_000, arrivals: { process: "poisson", rate: 9_000 }, holding: exp1 }, calls: 3e6, warmupCalls: 100_000 },
 ];
 
-function timeReplications(c: Case): { events: number; seconds: number } {
-  const s = parseScenario(c.scenario);
-  let events = 0;
-  const t0 = performance.now();
-  for (let i = 0; i < s.run.replications; i++) {
-    const r = new Replication(s, i, { generalLoop: c.generalLoop });
-    while (!r.advance(Number.MAX_SAFE_INTEGER));
-    events += r.stats().events;
-  }
-  return { events, seconds: (performance.now() - t0) / 1000 };
+function scenarioOf(c: Case, replications: number, callsPerReplication: number): Scenario {
+  return parseScenario({ ...c.model, run: { seed: 1, replications, callsPerReplication, warmupCalls: c.warmupCalls ?? 0 } });
 }
 
+/** Seconds for one replication of `calls` fresh calls on the given loop, after an untimed JIT warm-up pass. */
+function timeLoop(c: Case, path: EnginePath): { seconds: number; blocking: number } {
+  const warm = createReplication(scenarioOf(c, 2, Math.min(c.calls, 100_000)), 1, {}, path);
+  while (!warm.advance(1 << 20));
+  const s = scenarioOf(c, 2, c.calls);
+  const t0 = performance.now();
+  const loop = createReplication(s, 0, {}, path);
+  while (!loop.advance(1 << 20));
+  const seconds = (performance.now() - t0) / 1000;
+  const stats = loop.stats();
+  return { seconds, blocking: stats.blockedFirst / stats.calls };
+}
+
+function compileC(): string | undefined {
+  const probe = spawnSync("gcc", ["--version"], { encoding: "utf8" });
+  if (probe.error || probe.status !== 0) {
+    console.log("  (no C compiler found: gcc missing, so the ratios to the C loop are skipped)");
+    return undefined;
+  }
+  mkdirSync(output, { recursive: true });
+  const binary = path.join(output, "c-loop");
+  const built = spawnSync("gcc", ["-O2", "-o", binary, path.join(__dirname, "c-loop.c"), "-lm"], { encoding: "utf8" });
+  if (built.status !== 0) {
+    console.log(`  (the C loop did not compile, ratios to it are skipped: ${built.stderr.trim().split("\n")[0]})`);
+    return undefined;
+  }
+  return binary;
+}
+
+function runC(binary: string, c: Case): { seconds: number; wall: number; blocking: number } {
+  const t0 = performance.now();
+  const r = spawnSync(binary, [c.name, String(c.calls), "1"], { encoding: "utf8" });
+  const wall = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`c-loop ${c.name}: ${r.stderr}`);
+  const out = JSON.parse(r.stdout) as { seconds: number; calls: number; blocked: number };
+  return { seconds: out.seconds, wall, blocking: out.blocked / out.calls };
+}
+
+/** Wall-clock seconds of `npm run cli -- simulate` (node lib/cli/launch.mjs, bundled CLI), one thread. */
+function timeCli(c: Case): number {
+  const file = path.join(output, `bench-${c.name}.json`);
+  const run = { seed: 1, replications: 2, callsPerReplication: c.calls / 2, warmupCalls: c.warmupCalls ?? 0 };
+  writeFileSync(file, JSON.stringify({ ...c.model, run }));
+  const t0 = performance.now();
+  const r = spawnSync(process.execPath, [path.join(root, "lib/cli/launch.mjs"), "simulate", file, "--json"], { encoding: "utf8", env: { ...process.env, SPILLWAY_BUNDLE_DIR: defaultBundleDir } });
+  const wall = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`cli simulate ${c.name}: ${r.stderr}`);
+  return wall;
+}
+
+const ratio = (x: number | undefined) => (x === undefined ? "   -  " : `${x.toFixed(2).padStart(5)}x`);
+
 export async function runSimulationBench(): Promise<void> {
-  console.log("\nsimulation engine (one core, all statistics collected)");
+  console.log("\nsimulation engine: ratios measured in this run (higher is faster; x C = C seconds / JS seconds for the same calls)");
+  await bundleWorkers({ log: (line) => console.log(`  ${line}`) });
+  process.env.SPILLWAY_BUNDLE_DIR ??= defaultBundleDir;
+  const binary = compileC();
+  console.log(
+    `  ${"arrival kind".padEnd(44)} ${"reference".padStart(11)}  ${"specialised".padStart(11)} ${"vs ref".padStart(7)} ${"vs C".padStart(7)}  ${"markov vs C".padStart(11)}  ${"CLI vs C".padStart(9)}`,
+  );
   for (const c of cases) {
-    const { events, seconds } = timeReplications(c);
-    console.log(`  ${c.name.padEnd(48)} ${(events / seconds / 1e6).toFixed(2).padStart(6)} M events/s  (${(events / 1e6).toFixed(1)} M events, ${seconds.toFixed(2)} s)`);
+    const reference = timeLoop(c, "reference");
+    const specialised = timeLoop(c, "specialised");
+    const dispatched = enginePathFor(scenarioOf(c, 2, c.calls));
+    const markov = dispatched === "markov" ? timeLoop(c, "markov") : undefined;
+    const cRun = binary ? runC(binary, c) : undefined;
+    const cli = binary ? timeCli(c) : undefined;
+    const rate = (seconds: number) => `${(c.calls / seconds / 1e6).toFixed(2)} M/s`;
+    console.log(
+      `  ${c.label.padEnd(44)} ${rate(reference.seconds).padStart(11)}  ${rate(specialised.seconds).padStart(11)} ${ratio(reference.seconds / specialised.seconds).padStart(7)} ${ratio(cRun && cRun.seconds / specialised.seconds).padStart(7)}  ${(markov ? ratio(cRun && cRun.seconds / markov.seconds) : "    n/a").padStart(11)}  ${ratio(cRun && cli && cRun.wall / cli).padStart(9)}`,
+    );
+    if (cRun && Math.abs(cRun.blocking - specialised.blocking) > 0.05 * Math.max(specialised.blocking, 1e-3) + 5 * Math.sqrt(specialised.blocking / c.calls))
+      console.log(`    note: the C loop's blocking ${cRun.blocking.toFixed(5)} differs from the JS loop's ${specialised.blocking.toFixed(5)}: the two models are out of step`);
   }
+  console.log("  (M/s = fresh calls per second on one core; the CLI column runs the dispatched path, start-up included; 'markov' where the dispatcher picks it)");
+
+  // Worker pool start-up: time from creating a 2-thread pool to the answer of a tiny request.
+  const tiny = parseScenario({ servers: 2, arrivals: { process: "poisson", rate: 1 }, holding: exp1, run: { seed: 1, replications: 2, callsPerReplication: 100 } });
+  const t0 = performance.now();
+  const pool = new ThreadRunner(2);
+  await pool.run({ key: "startup", scenario: tiny, indices: [0, 1] });
+  console.log(`  worker pool start-up (2 threads, bundled replication worker): ${((performance.now() - t0) / 1000).toFixed(3)} s  (goal <= 0.3 s)`);
+  await pool.close();
+
   const s = parseScenario({ servers: 30, arrivals: { process: "poisson", rate: 20 }, holding: { law: "lognormal", mean: 1, cv: 1 }, run: { seed: 1, replications: 8, callsPerReplication: 2_500_000 } });
+  const seconds: number[] = [];
   for (const threads of [1, 2]) {
-    const t0 = performance.now();
-    const r = await runScenario(s, { threads });
-    const seconds = (performance.now() - t0) / 1000;
-    console.log(`  runScenario M/G/30/30, 8 x 2.5 M calls, --threads ${threads}`.padEnd(50) + ` ${(r.events / seconds / 1e6).toFixed(2).padStart(6)} M events/s  (${seconds.toFixed(2)} s incl. worker start-up)`);
+    const t = performance.now();
+    await runScenario(s, { threads });
+    seconds.push((performance.now() - t) / 1000);
   }
+  console.log(`  runScenario M/G/30/30, 8 x 2.5 M calls: 1 thread ${seconds[0].toFixed(2)} s, 2 threads ${seconds[1].toFixed(2)} s, speed-up ${(seconds[0] / seconds[1]).toFixed(2)}x  (goal >= 1.8x)`);
 }

@@ -31,6 +31,7 @@ test("an admin invites someone, who sets a password through the link and joins w
   await accept.getByRole("button", { name: "Create my account and join" }).click();
   await expect(invitee).toHaveURL(/\/w\/kestrel-fen$/);
   await expect(invitee.getByTestId("signed-in-as")).toContainText("Noor Brook");
+  await invitee.goto("/w/kestrel-fen/settings");
   await expect(invitee.getByRole("list", { name: "What your role allows" }).getByText("Queue simulation runs (allowed)")).toBeVisible();
 
   // The link is single-use.
@@ -43,7 +44,7 @@ test("an admin invites someone, who sets a password through the link and joins w
   await page.goto("/w/kestrel-fen/members");
   await page.getByLabel(`Role of ${email}`).selectOption("viewer");
   await expect(page.getByText("Role changed to viewer.")).toBeVisible();
-  await invitee.goto("/w/kestrel-fen");
+  await invitee.goto("/w/kestrel-fen/settings");
   await expect(invitee.getByRole("list", { name: "What your role allows" }).getByText("Queue simulation runs (not allowed)")).toBeAttached();
 
   // Admins read the captured mail in the development mailbox.

@@ -13,6 +13,8 @@ for (const c of cases) {
   test(`${c.role} signs in and sees what the role allows`, async ({ page }) => {
     await signInAs(page, c.role);
     await expect(page.getByRole("heading", { level: 1, name: "Kestrel Fen Exchange Study" })).toBeVisible();
+    // The role's abilities are listed under Settings (the home page shows the work in the workspace).
+    await page.goto("/w/kestrel-fen/settings");
     const abilities = page.getByRole("list", { name: "What your role allows" });
     for (const text of c.allowed) await expect(abilities.getByText(`${text} (allowed)`)).toBeVisible();
     for (const text of c.denied) await expect(abilities.getByText(`${text} (not allowed)`)).toBeAttached();

@@ -41,7 +41,16 @@ export async function runChunk(ctx: WorkerContext, { runId, chunk }: Payload<"ru
   try {
     const injected = injectedChunkFailure(chunk, job.retryCount + 1);
     if (injected) throw injected;
-    aggregate = await simulateChunk(scenario, plan, chunk, { runner: ctx.runner, key: runId, signal: controller.signal, onProgress: (f) => (fraction = f) });
+    // The first slice's progress is written at once (the run shows it is moving), then once a second.
+    let first = true;
+    const onProgress = (f: number) => {
+      fraction = f;
+      if (first) {
+        first = false;
+        report();
+      }
+    };
+    aggregate = await simulateChunk(scenario, plan, chunk, { runner: ctx.runner, key: runId, signal: controller.signal, onProgress });
   } catch (error) {
     const stop = controller.signal.reason;
     if (stop instanceof ChunkStopped && stop.reason === "run-ended") return; // cancel: what was done is kept by run-finalise

@@ -2,7 +2,7 @@
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import { useEffect, useState } from "react";
-import { apiFetch, workspacePath } from "../api";
+import { ApiError, apiFetch, workspacePath } from "../api";
 import { queryKeys } from "./keys";
 import type { ReferencesResponse } from "@/lib/jobs/api-types";
 
@@ -29,6 +29,8 @@ export function useReferences(ws: string, scenario: unknown | null, debounceMs =
     enabled: settled !== null,
     placeholderData: keepPreviousData,
     staleTime: Infinity,
-    retry: false,
+    // 429: the previous (abandoned) evaluation still runs on the server; it ends within the time budget.
+    retry: (count, error) => error instanceof ApiError && error.status === 429 && count < 3,
+    retryDelay: 1_000,
   });
 }

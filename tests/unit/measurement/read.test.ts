@@ -100,6 +100,14 @@ describe("preview", () => {
     expect(p.delimiter).toBe("\t");
     expect(p.guess).toEqual({ kind: "call-records", start: "call start", duration: "holding time", outcome: "status" });
   });
+  it("guesses a duration column named with its unit, and the unit", async () => {
+    const demo = await previewCsv(enc("call_start,duration_s,outcome,route\n2026-01-12T10:00:00Z,155.0,answered,south\n"));
+    expect(demo.guess).toEqual({ kind: "call-records", start: "call_start", duration: "duration_s", outcome: "outcome", group: "route" });
+    const ms = await previewCsv(enc("start,duration_ms\n2026-01-12T10:00:00Z,1500\n"));
+    expect(ms.guess).toEqual({ kind: "call-records", start: "start", duration: "duration_ms", durationUnit: "milliseconds" });
+    const min = await previewCsv(enc("start,hold (min)\n2026-01-12T10:00:00Z,2.5\n"));
+    expect(min.guess).toEqual({ kind: "call-records", start: "start", duration: "hold (min)", durationUnit: "minutes" });
+  });
   it("guesses interval counts", async () => {
     const p = await previewCsv(enc("period_start,calls,answered\n2026-01-12T10:00Z,5,5\n"));
     expect(p.guess).toEqual({ kind: "interval-counts", intervalStart: "period_start", attempts: "calls", carried: "answered", intervalMinutes: 15 });

@@ -58,3 +58,46 @@ describe("specialised loop on the reference streams: bit-identical to engine.ts"
     });
   }
 });
+
+describe("specialised loop on the ziggurat streams: the same model, checked statistically", () => {
+  it("the dispatcher runs it with ziggurat streams (they differ from the reference draws)", () => {
+    const s = parseScenario(shapes[1][1]);
+    const zig = runToEnd(new FastReplication(s, 0), 1 << 20);
+    const ref = runToEnd(new FastReplication(s, 0, { streams: "reference" }), 1 << 20);
+    expect(zig.busyIntegral).not.toBe(ref.busyIntegral);
+  });
+
+  it("M/G/30/30 with lognormal holding (cv 1.5) at 25 E: call and time congestion agree with Erlang B (insensitivity)", async () => {
+    // Erlang B is insensitive to the holding law (Sevastyanov 1957); exact value by the recursion
+    // B(n) = A B(n-1) / (n + A B(n-1)) computed here. Bound: t(0.9995, n-1) x SE (see helpers.ts).
+    let b = 1;
+    for (let n = 1; n <= 30; n++) b = (25 * b) / (n + 25 * b);
+    const { runScenario } = await import("../../../lib/simulation/node");
+    const { expectAgrees } = await import("./helpers");
+    const reps = 16;
+    const r = await runScenario(parseScenario({ ...shapes[1][1], run: { seed: 77, replications: reps, callsPerReplication: 60_000, warmupCalls: 2_000 } }));
+    expect(r.enginePath).toBe("specialised");
+    expectAgrees(r.callCongestion, b, reps, "call congestion");
+    expectAgrees(r.timeCongestion, b, reps, "time congestion");
+  });
+
+  it("retrials with lognormal delays: loss, attempts per call and carried traffic agree with the reference loop", async () => {
+    // Independent replications on each side: |difference| <= t(0.9995, n-1) x sqrt(se1^2 + se2^2)
+    // fails with probability below 0.001 for a correct pair (conservative degrees of freedom).
+    const { default: tQuantile } = await import("@stdlib/stats-base-dists-t-quantile");
+    const { aggregateReplications, buildResult } = await import("../../../lib/simulation");
+    const s = parseScenario({ ...shapes[11][1], run: { seed: 78, replications: 12, callsPerReplication: 40_000, warmupCalls: 2_000 } });
+    const results = [true, false].map((zig) => {
+      const stats = Array.from({ length: s.run.replications }, (_, i) =>
+        runToEnd(zig ? new FastReplication(s, i) : new Replication(s, i, { generalLoop: true }), 1 << 20),
+      );
+      return buildResult(s, aggregateReplications(stats, s.servers), []);
+    });
+    const t = tQuantile(0.9995, s.run.replications - 1);
+    for (const measure of ["callCongestion", "lossProbability", "attemptsPerCall", "carriedTraffic", "meanRetrying"] as const) {
+      const a = results[0][measure]!;
+      const b = results[1][measure]!;
+      expect(Math.abs(a.estimate - b.estimate), `${measure}: ${a.estimate} vs ${b.estimate}`).toBeLessThanOrEqual(t * Math.hypot(a.standardError, b.standardError));
+    }
+  });
+});

@@ -4,6 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { mser5, parseScenario, Replication, runReplication, runScenario, ScenarioError, type ScenarioInput } from "../../../lib/simulation/node";
 import { erlangB } from "../../../lib/teletraffic";
+import { createReplication } from "../../../lib/simulation/dispatch";
 import { expectAgrees } from "./helpers";
 
 const messageOf = (input: unknown): string => {
@@ -62,7 +63,8 @@ describe("MSER-5 warm-up with batch arrivals", () => {
 
   it("the pilot has one trace point per 2 calls and the rerun starts measuring at MSER's point", () => {
     const traceEvery = 2; // floor(10 000 / 5 000 observations)
-    const pilot = new Replication(s, 0, { warmupCalls: 0, traceEvery });
+    // The pilot on the loop the job dispatches to (dispatch.ts), so it shares the job's streams.
+    const pilot = createReplication(s, 0, { warmupCalls: 0, traceEvery });
     while (!pilot.advance(1 << 20));
     // Batches arrive with 0, 3, 6, ... calls seen, and each of them reaches the next multiple of 2,
     // so every batch before the 10 000th call is a trace point (the old rule kept 0, 6, 12, ...).

@@ -1,0 +1,45 @@
+// characterise-upload: read a stored measured-traffic file, characterise it (lib/measurement), write progress
+// to the upload row while it reads, and store the characterisation, or a clear error on the row.
+import type PgBoss from "pg-boss";
+import type { Payload } from "../../lib/jobs/contracts";
+import { characterise, MeasurementInputError, readMeasurementCsv } from "../../lib/measurement";
+import { postgresObjectStore } from "../../db/queries/objects";
+import { failUpload, findUploadForWork, finishUpload, markUploadCharacterising, setUploadProgress } from "../../db/queries/uploads";
+import type { WorkerContext } from "../context";
+
+/** Share of the progress bar given to reading the file; the rest is the characterisation. */
+const READ_SHARE = 0.3;
+/** At most one progress write per this many milliseconds. */
+const PROGRESS_EVERY_MS = 500;
+
+export async function characteriseUpload(ctx: WorkerContext, { uploadId }: Payload<"characterise-upload">, job?: PgBoss.JobWithMetadata<unknown>): Promise<void> {
+  const upload = await findUploadForWork(ctx.db, uploadId);
+  if (!upload || !(await markUploadCharacterising(ctx.db, uploadId))) return; // gone, or done by an earlier delivery
+  let lastWrite = 0;
+  const report = async (fraction: number) => {
+    if (Date.now() - lastWrite < PROGRESS_EVERY_MS) return;
+    lastWrite = Date.now();
+    await setUploadProgress(ctx.db, uploadId, fraction);
+  };
+  let outcome: { ok: true; value: ReturnType<typeof characterise> } | { ok: false; message: string };
+  try {
+    const object = await postgresObjectStore(ctx.db).getObject(upload.workspaceId, upload.objectKey);
+    if (!object) throw new MeasurementInputError("empty-file", "the stored file is missing; upload it again");
+    const pending: Promise<void>[] = [];
+    const data = await readMeasurementCsv(object.bytes, upload.mapping, {
+      onProgress: (bytes) => void pending.push(report((READ_SHARE * bytes) / Math.max(1, object.sizeBytes))),
+    });
+    await Promise.all(pending);
+    await setUploadProgress(ctx.db, uploadId, READ_SHARE);
+    // Synchronous: the stages it reports are recorded once it returns (the bar then jumps to done).
+    outcome = { ok: true, value: characterise(data) };
+  } catch (error) {
+    // The file was checked when it was uploaded, so a refusal here is a changed rule or a lost object: permanent.
+    if (error instanceof MeasurementInputError) outcome = { ok: false, message: error.message };
+    else if (job && job.retryCount < job.retryLimit) throw error; // pg-boss tries again
+    else outcome = { ok: false, message: `the worker failed (${(error as Error).message})` };
+  }
+  if (outcome.ok) await finishUpload(ctx.db, uploadId, outcome.value);
+  else await failUpload(ctx.db, uploadId, `The file could not be characterised: ${outcome.message}`);
+  ctx.log(`characterise-upload ${uploadId}: ${outcome.ok ? "ready" : "failed"}`);
+}
