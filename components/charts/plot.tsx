@@ -39,8 +39,10 @@ export const chartColours = {
 
 export function Plot({ data, title, summary, xTitle, yTitle, layout, height = 320, testId }: PlotProps) {
   return (
-    <figure className="w-full" data-testid={testId}>
-      <div role="img" aria-label={`${title}. ${summary}`} style={{ height }} className="w-full">
+    // Named as a figure, not role="img": Plotly's toolbar buttons inside must stay reachable (an img's children are
+    // presentational, so axe reports them as nested-interactive). The caption gives the reading in words.
+    <figure className="w-full" data-testid={testId} aria-label={title}>
+      <div style={{ height }} className="w-full">
         <PlotlyChart
           data={data}
           layout={{

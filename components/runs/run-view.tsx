@@ -5,6 +5,7 @@ import { useState, type ReactNode } from "react";
 import { Button, Callout, Card, CardBody, CardHeader, CardTitle, ConfirmDialog, LinkButton, PageHeader, Stat, StatGroup, toast } from "@/components/ui";
 import { ErrorBlock, LoadingBlock } from "@/components/lab/states";
 import { SafetyNote } from "@/components/lab/safety-note";
+import { stopReasons } from "@/components/reports/run-notes";
 import { errorMessage } from "@/lib/client/api";
 import { formatDateTime, formatDuration, formatErlangs, formatNumber, formatPercent } from "@/lib/client/format";
 import { isLive } from "@/lib/client/queries/keys";
@@ -19,14 +20,6 @@ import { runLabel } from "./run-table";
 import { JobStatusBadge, ProgressBar, ReviewBadge } from "./status";
 import { TargetControl, useTarget } from "./target-control";
 import { VerdictBadge } from "./verdict";
-
-const stopReasons: Record<SimulationResult["stopReason"], string> = {
-  planned: "all planned replications ran",
-  "precision-met": "the target precision was reached",
-  "call-budget": "the call budget was used up before the target precision",
-  "replication-limit": "the replication limit was reached before the target precision",
-  cancelled: "the run was cancelled; the figures cover the chunks finished before",
-};
 
 export interface RunViewProps {
   workspace: string;

@@ -31,7 +31,7 @@ export function AppShell({ workspace, role, user, workspaces, mailboxEnabled, ch
   ];
   return (
     <div className="min-h-screen">
-      <header className="bg-basin-950 text-white">
+      <header className="bg-basin-950 text-white print:hidden">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-4 px-4 py-3">
           <Link href={base} className="flex items-center gap-2 text-lg font-semibold tracking-tight">
             <img src="/spillway-mark.svg" alt="" width={24} height={24} />
@@ -58,7 +58,7 @@ export function AppShell({ workspace, role, user, workspaces, mailboxEnabled, ch
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-6xl px-4 py-8">{children}</main>
+      <main className="mx-auto max-w-6xl px-4 py-8 print:max-w-none print:p-0">{children}</main>
     </div>
   );
 }

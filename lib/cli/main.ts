@@ -1,12 +1,29 @@
 import { ZodError } from "zod";
-import { analyticCommands } from "./analytic-commands";
-import { simulationCommands } from "./simulation-commands";
-import { remoteCommands } from "./remote-commands";
 import { CliUsageError, isInputError, type CliCommand } from "./command";
 
-const commands: CliCommand[] = [...analyticCommands, ...simulationCommands, ...remoteCommands];
+// Each command module is loaded only when one of its commands runs (or for help): `simulate` then
+// skips the analytic command table, and `erlang-b` the simulation engine and its references.
+const analytic = async () => (await import("./analytic-commands")).analyticCommands;
+const simulation = async () => (await import("./simulation-commands")).simulationCommands;
+const remote = async () => (await import("./remote-commands")).remoteCommands;
 
-function usage(): string {
+/** Every command module, in the order help lists them. */
+const modules = [analytic, simulation, remote];
+
+/** The module of each command outside the analytic table (which has one command per analytic operation). */
+const commandModules: Record<string, () => Promise<CliCommand[]>> = { plan: simulation, simulate: simulation, submit: remote };
+
+/** The named command; a name missing from `commandModules` still works, at the cost of loading every module. */
+async function findCommand(name: string): Promise<CliCommand | undefined> {
+  const likely = (await (commandModules[name] ?? analytic)()).find((c) => c.name === name);
+  return likely ?? (await allCommands()).find((c) => c.name === name);
+}
+
+async function allCommands(): Promise<CliCommand[]> {
+  return (await Promise.all(modules.map((load) => load()))).flat();
+}
+
+function usage(commands: CliCommand[]): string {
   const width = Math.max(...commands.map((c) => c.name.length), 4);
   return [
     "usage: npm run -s cli -- <command> [--flag value ...] [--json]",
@@ -26,10 +43,10 @@ export function describeError(error: unknown): string {
 async function main(argv: string[]): Promise<number> {
   const [name, ...rest] = argv;
   if (!name || name === "help" || name === "--help") {
-    console.log(usage());
+    console.log(usage(await allCommands()));
     return name ? 0 : 2;
   }
-  const command = commands.find((c) => c.name === name);
+  const command = await findCommand(name);
   if (!command) {
     console.error(`unknown command "${name}"; run "npm run -s cli -- help" for the list`);
     return 2;

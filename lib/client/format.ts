@@ -1,5 +1,6 @@
 // Numbers and times as Spillway shows them: probabilities as percentages with 3 significant figures, traffic in
 // erlangs, counts grouped, times in the viewer's own locale and time zone.
+import { PROBABILITY_MEASURES } from "@/lib/simulation/result";
 
 const sig = (value: number, digits: number) => Number(value.toPrecision(digits));
 
@@ -33,15 +34,8 @@ export function formatMeasure(measure: string, value: number | null | undefined)
   return probabilityMeasures.has(measure) ? formatPercent(value) : measure === "carriedTraffic" ? formatErlangs(value) : formatNumber(value);
 }
 
-export const probabilityMeasures = new Set([
-  "callCongestion",
-  "timeCongestion",
-  "firstAttemptBlocking",
-  "lossProbability",
-  "attemptCongestion",
-  "waitingProbability",
-  "abandonmentProbability",
-]);
+/** The result's probability measures (shown in per cent), from the result's own list. */
+export const probabilityMeasures: ReadonlySet<string> = new Set(PROBABILITY_MEASURES);
 
 export function formatDateTime(iso: string | Date | null | undefined): string {
   if (!iso) return "–";

@@ -1,7 +1,7 @@
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { Random, SUBSTREAM } from "./random";
-import { freshCallRate, lawMean, type Scenario } from "./scenario";
-import { mmppOf, stationaryOfGenerator } from "./traffic";
+import type { Scenario } from "./scenario";
+import { freshCallRate, lawMean, mmppOf, stationaryOfGenerator } from "./traffic";
 
 /**
  * Counters of one replication, measured after the warm-up. This is the contract every event loop
@@ -94,6 +94,24 @@ export interface ReplicationStats {
   /** `overflow` only (else empty): of those, the ones that found the primary full and overflowed to the group under study. */
   primaryOverflows: number[];
   /**
+   * `time-varying` only (else empty), one entry per profile segment, summed over every cycle of the
+   * measured period (a segment is "where in the cycle", not one interval of time): fresh calls
+   * offered, their first attempts refused, and the time with all servers busy. A call belongs to the
+   * segment containing its arrival instant (a boundary instant to the segment it ends). The time
+   * spent in each segment is a function of the measured period alone (result.ts computes it from
+   * warmupTime and time). Summed over segments they give calls, blockedFirst and allBusyTime.
+   */
+  segmentCalls: number[];
+  segmentBlockedFirst: number[];
+  segmentAllBusyTime: number[];
+  /**
+   * `time-varying` with retrials or waiting positions only (else empty; without them it equals
+   * segmentBlockedFirst): calls given up in the measured period (refused for good, out of attempts
+   * or abandoned), each counted for the segment where it first arrived. Summed over segments they
+   * give lost.
+   */
+  segmentLost: number[];
+  /**
    * Snapshot at the middle of the measured period (the fresh arrival at which half the calls, or
    * for horizon runs half the horizon, are reached; all 0 if the period ended before): elapsed
    * measured time and the busy, retrying and waiting integrals so far. Comparing the halves shows
@@ -121,6 +139,12 @@ const TIE = 16 * Number.EPSILON;
 const K_DEPARTURE = 0;
 const K_PRIMARY_DEPARTURE = 1;
 const K_RETRY = 2;
+/**
+ * A retry's heap payload is its attempt number plus ORIGIN_STRIDE × the profile segment where the
+ * call first arrived (time-varying only; else the segment is 0 and the payload the attempt number).
+ * Attempts are at most LIMITS.maxAttempts (1 000) < ORIGIN_STRIDE.
+ */
+const ORIGIN_STRIDE = 2048;
 const K_ABANDON = 3;
 
 /**
@@ -204,6 +228,17 @@ export class Replication {
   private readonly cycleIntegral: number = 0;
   private segment = 0;
   private cycleStart = 0;
+  /** Duration of each profile segment. */
+  private readonly profileDuration: Float64Array = new Float64Array(0);
+  // The profile segment holding the clock t (the arrival generator's `segment` runs ahead with nextArrival).
+  private clockSegment = 0;
+  private clockCycleStart = 0;
+  private clockSegmentEnd = Infinity;
+  // per-segment counters (time-varying only; see ReplicationStats)
+  private readonly segmentCalls: Float64Array = new Float64Array(0);
+  private readonly segmentBlockedFirst: Float64Array = new Float64Array(0);
+  private readonly segmentAllBusyTime: Float64Array = new Float64Array(0);
+  private readonly segmentLost: Float64Array = new Float64Array(0);
 
   // random streams
   private readonly arrivalRng: Random;
@@ -222,6 +257,8 @@ export class Replication {
   // waiting line (ring buffer; abandoned entries are skipped lazily)
   private queueArrival: Float64Array;
   private queueAlive: Uint8Array;
+  /** Profile segment where each waiting call first arrived (time-varying; segments <= 1 000). */
+  private queueOrigin: Uint16Array;
   private queueHead = 0;
   private queueTail = 0;
 
@@ -372,6 +409,7 @@ export class Replication {
       process = P_TIME_VARYING;
       this.profileEnd = new Float64Array(a.profile.length);
       this.profileRate = Float64Array.from(a.profile.map((s) => s.rate));
+      this.profileDuration = Float64Array.from(a.profile.map((s) => s.duration));
       this.profileCumulative = new Float64Array(a.profile.length);
       let integral = 0;
       a.profile.forEach((s, i) => {
@@ -379,6 +417,12 @@ export class Replication {
         this.profileCumulative[i] = integral += s.rate * s.duration;
       });
       this.cycleIntegral = integral;
+      this.clockSegmentEnd = this.profileEnd[0];
+      const m = a.profile.length;
+      this.segmentCalls = new Float64Array(m);
+      this.segmentBlockedFirst = new Float64Array(m);
+      this.segmentAllBusyTime = new Float64Array(m);
+      if (scenario.waitingPositions > 0 || (retrials && retrials.persistence > 0)) this.segmentLost = new Float64Array(m);
     }
     this.process = process;
     this.rate = rate;
@@ -395,6 +439,7 @@ export class Replication {
     this.heapPayload = new Float64Array(capacity);
     this.queueArrival = new Float64Array(this.waitingPositions > 0 ? 16 : 0);
     this.queueAlive = new Uint8Array(this.queueArrival.length);
+    this.queueOrigin = new Uint16Array(this.queueArrival.length);
 
     const run = scenario.run;
     this.callsTarget = run.callsPerReplication ?? Infinity;
@@ -438,6 +483,10 @@ export class Replication {
     this.nearRefusalGapDeviation = this.phaseSojournDeviation = this.nearRefusalPhaseSojournDeviation = 0;
     this.primaryArrivals.fill(0);
     this.primaryOverflows.fill(0);
+    this.segmentCalls.fill(0);
+    this.segmentBlockedFirst.fill(0);
+    this.segmentAllBusyTime.fill(0);
+    this.segmentLost.fill(0);
     this.halfTaken = false;
     this.halfTime = this.halfBusyIntegral = this.halfOrbitIntegral = this.halfQueueIntegral = 0;
     this.occupancy.fill(0);
@@ -519,6 +568,33 @@ export class Replication {
         now = this.cycleStart;
       }
     }
+  }
+
+  /**
+   * Moves the segment clock from t to `to`, adding the all-busy time to each profile segment the
+   * interval crosses. An instant on a boundary stays in the segment it ends.
+   */
+  private advanceSegmentClock(to: number, allBusy: boolean): void {
+    let from = this.t;
+    const m = this.profileEnd.length;
+    while (to > this.clockSegmentEnd) {
+      if (allBusy) this.segmentAllBusyTime[this.clockSegment] += this.clockSegmentEnd - from;
+      from = this.clockSegmentEnd;
+      if (++this.clockSegment === m) {
+        this.clockSegment = 0;
+        this.clockCycleStart += this.cycle;
+        // Whole cycles in one step: an idle stretch of a near-empty profile can span very many.
+        let cycles = Math.floor((to - this.clockCycleStart) / this.cycle);
+        if (cycles > 0 && this.clockCycleStart + cycles * this.cycle > to) cycles--;
+        if (cycles > 0) {
+          if (allBusy) for (let i = 0; i < m; i++) this.segmentAllBusyTime[i] += cycles * this.profileDuration[i];
+          this.clockCycleStart += cycles * this.cycle;
+          from = this.clockCycleStart;
+        }
+      }
+      this.clockSegmentEnd = this.clockCycleStart + this.profileEnd[this.clockSegment];
+    }
+    if (allBusy) this.segmentAllBusyTime[this.clockSegment] += to - from;
   }
 
   /** Integral of the time-varying profile's rate from time 0 to t (periodic extension). */
@@ -612,16 +688,19 @@ export class Replication {
     const cap = old * 2;
     const arrival = new Float64Array(cap);
     const alive = new Uint8Array(cap);
+    const origin = new Uint16Array(cap);
     for (let id = this.queueHead; id < this.queueTail; id++) {
       arrival[id % cap] = this.queueArrival[id % old];
       alive[id % cap] = this.queueAlive[id % old];
+      origin[id % cap] = this.queueOrigin[id % old];
     }
     this.queueArrival = arrival;
     this.queueAlive = alive;
+    this.queueOrigin = origin;
   }
 
-  /** One attempt (fresh or repeated) at the group under study. */
-  private attempt(attemptNumber: number, fresh: boolean): void {
+  /** One attempt (fresh or repeated) at the group under study; `origin` is the profile segment where the call first arrived. */
+  private attempt(attemptNumber: number, fresh: boolean, origin = 0): void {
     this.attempts++;
     const level = this.busy + this.waiting;
     if (fresh && level >= this.nearLevel) this.nearRefusalCalls++;
@@ -640,12 +719,16 @@ export class Replication {
       const pos = id % this.queueArrival.length;
       this.queueArrival[pos] = this.t;
       this.queueAlive[pos] = 1;
+      this.queueOrigin[pos] = origin;
       if (this.patience) this.push(this.t + this.patience.sample(this.patienceRng), K_ABANDON, id);
       return;
     }
     this.blockedAttempts++;
-    if (fresh) this.blockedFirst++;
-    this.refused(attemptNumber);
+    if (fresh) {
+      this.blockedFirst++;
+      if (this.segmentBlockedFirst.length > 0) this.segmentBlockedFirst[this.clockSegment]++;
+    }
+    this.refused(attemptNumber, origin);
   }
 
   /** A call seizes a server of the group under study: draw its holding time and schedule the departure. */
@@ -660,11 +743,17 @@ export class Replication {
     this.push(this.t + h, K_DEPARTURE, 0);
   }
 
-  private refused(attemptNumber: number): void {
+  private refused(attemptNumber: number, origin = 0): void {
     if (this.retryDelay && attemptNumber < this.maxAttempts && this.retryRng.next() < this.persistence) {
       this.orbit++;
-      this.push(this.t + this.retryDelay.sample(this.retryRng), K_RETRY, attemptNumber);
-    } else this.lost++;
+      this.push(this.t + this.retryDelay.sample(this.retryRng), K_RETRY, attemptNumber + ORIGIN_STRIDE * origin);
+    } else this.lostOne(origin);
+  }
+
+  /** A call given up for good, counted for the profile segment where it first arrived. */
+  private lostOne(origin: number): void {
+    this.lost++;
+    if (this.segmentLost.length > 0) this.segmentLost[origin]++;
   }
 
   /** Fresh arrival instant: returns false when the replication has enough calls. */
@@ -715,7 +804,8 @@ export class Replication {
     } else {
       this.callsSeen++;
       this.calls++;
-      this.attempt(1, true);
+      if (this.segmentCalls.length > 0) this.segmentCalls[this.clockSegment]++;
+      this.attempt(1, true, this.clockSegment);
     }
     if (this.measuring && !this.halfTaken && (this.calls >= this.halfCalls || this.t - this.measureStart >= this.halfSpan)) this.takeHalf(this.busyIntegral);
     this.scheduleFreshArrival();
@@ -754,7 +844,7 @@ export class Replication {
     this.queueAlive[pos] = 0;
     this.waiting--;
     this.abandoned++;
-    this.lost++;
+    this.lostOne(this.queueOrigin[pos]);
     this.waitSum += this.t - this.queueArrival[pos];
   }
 
@@ -814,7 +904,8 @@ export class Replication {
       }
       else if (kind === K_RETRY) {
         this.orbit--;
-        this.attempt(payload + 1, false);
+        const attempt = payload % ORIGIN_STRIDE;
+        this.attempt(attempt + 1, false, (payload - attempt) / ORIGIN_STRIDE);
       } else this.abandon(payload);
       if (finite) this.scheduleFreshArrival(); // idle count changed; the clock is memoryless
     }
@@ -847,6 +938,7 @@ export class Replication {
         break;
       case P_TIME_VARYING:
         intensity = this.profileIntegral(to) - this.profileIntegral(this.t);
+        this.advanceSegmentClock(to, this.busy === this.servers);
         break;
     }
     if (intensity >= 0) {
@@ -1066,6 +1158,10 @@ export class Replication {
       holdingSum: this.holdingSum,
       primaryArrivals: Array.from(this.primaryArrivals),
       primaryOverflows: Array.from(this.primaryOverflows),
+      segmentCalls: Array.from(this.segmentCalls),
+      segmentBlockedFirst: Array.from(this.segmentBlockedFirst),
+      segmentAllBusyTime: Array.from(this.segmentAllBusyTime),
+      segmentLost: Array.from(this.segmentLost),
       halfTime: this.halfTime,
       halfBusyIntegral: this.halfBusyIntegral,
       halfOrbitIntegral: this.halfOrbitIntegral,

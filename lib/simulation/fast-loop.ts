@@ -730,6 +730,11 @@ export class FastReplication {
       holdingSum: this.holdingSum,
       primaryArrivals: Array.from(this.primaryArrivals),
       primaryOverflows: Array.from(this.primaryOverflows),
+      // Time-varying profiles run on the reference loop only (dispatch.ts).
+      segmentCalls: [],
+      segmentBlockedFirst: [],
+      segmentAllBusyTime: [],
+      segmentLost: [],
       halfTime: this.halfTime,
       halfBusyIntegral: this.halfBusyIntegral,
       halfOrbitIntegral: this.halfOrbitIntegral,

@@ -1,4 +1,5 @@
-import { balancedHyperexponential, weibullShapeForCv, type BatchSizeLaw, type Law } from "../teletraffic/laws";
+import { balancedHyperexponential, weibullShapeForCv } from "../teletraffic/law-formulas";
+import type { BatchSizeLaw, Law } from "../teletraffic/laws";
 import { lnGamma } from "../teletraffic/numeric";
 import type { Random } from "./random";
 import * as ziggurat from "./ziggurat";

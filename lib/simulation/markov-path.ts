@@ -337,6 +337,11 @@ export class MarkovReplication {
       holdingSum: admitted * this.holdingMean,
       primaryArrivals: [],
       primaryOverflows: [],
+      // Time-varying profiles run on the reference loop only (dispatch.ts).
+      segmentCalls: [],
+      segmentBlockedFirst: [],
+      segmentAllBusyTime: [],
+      segmentLost: [],
       halfTime: this.halfTime,
       halfBusyIntegral: this.halfBusyIntegral,
       halfOrbitIntegral: 0,

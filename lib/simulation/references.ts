@@ -1,7 +1,8 @@
 import { z } from "zod";
 import * as tt from "../teletraffic";
 import type { Scenario } from "./scenario";
-import { meanCallRate, mmppOf, offeredTraffic, overflowStreamMoments, streamMoments } from "./traffic";
+import { overflowStreamMoments, streamMoments } from "./stream-moments";
+import { meanCallRate, mmppOf, offeredTraffic } from "./traffic";
 
 export { offeredTraffic, overflowStreamMoments };
 export { batchPeakedness, mmppOfferedMoments } from "../teletraffic";
@@ -31,8 +32,8 @@ export const referenceSchema = z.object({
   batchCongestion: z.number().optional(),
   /** Estimated probability mass the method left out (orbit truncation); the value is exact to about this. */
   truncationBound: z.number().optional(),
-  /** Per profile segment (time-varying load): start, duration and the method's call congestion there. */
-  segments: z.array(z.object({ start: z.number(), duration: z.number(), callCongestion: z.number() })).optional(),
+  /** Per profile segment (time-varying load): start, duration and the method's call (and time) congestion there. */
+  segments: z.array(z.object({ start: z.number(), duration: z.number(), callCongestion: z.number(), timeCongestion: z.number().optional() })).optional(),
   /** True when the case is too large for an interactive answer: callers offer it as a background job. */
   background: z.boolean().optional(),
   /** Set instead of values when the method cannot be evaluated for these inputs (the reason). */
@@ -133,8 +134,15 @@ function peakedRule(method: "Wilkinson equivalent random" | "Hayward"): Referenc
   };
 }
 
+/** Method names of the time-varying references (result.ts sets their per-segment values beside the estimates). */
+export const TIME_VARYING_METHODS = {
+  pointwise: "pointwise stationary approximation",
+  modifiedLoad: "modified offered load approximation",
+  periodic: "M(t)/M/N/N periodic exact solution",
+} as const;
+
 function timeVaryingRule(method: "pointwise stationary approximation" | "modified offered load approximation"): ReferenceRule {
-  const pointwise = method === "pointwise stationary approximation";
+  const pointwise = method === TIME_VARYING_METHODS.pointwise;
   return {
     method,
     limits: `interactive up to segments × nodes × (N + 1) = ${tt.INTERACTIVE_TIME_VARYING_WORK}`,
@@ -162,6 +170,33 @@ function timeVaryingRule(method: "pointwise stationary approximation" | "modifie
     },
   };
 }
+
+/** The exact periodic solution of the forward equations (lib/teletraffic/periodic-loss.ts). */
+const periodicRule: ReferenceRule = {
+  method: TIME_VARYING_METHODS.periodic,
+  limits: `interactive up to about ${tt.INTERACTIVE_PERIODIC_WORK} state updates ((N + 1) × uniformisation terms over the cycles needed); at most ${tt.MAX_PERIODIC_WORK}`,
+  interactiveWork: tt.INTERACTIVE_PERIODIC_WORK,
+  work: (s, f) => (s.arrivals.process === "time-varying" ? tt.periodicLossWork(f.n, s.arrivals.profile, f.h) : 0),
+  applies: (s, f) =>
+    s.arrivals.process === "time-varying" && f.pureLoss && f.exponentialHolding
+      ? {
+          exact: true,
+          assumptions:
+            "Poisson arrivals at the profile's piecewise-constant periodic rate, exponential holding, blocked calls cleared; the periodic steady state of the forward equations (errors below the stated bound)",
+        }
+      : undefined,
+  compute(s, f) {
+    if (s.arrivals.process !== "time-varying") throw new Error("not a time-varying profile");
+    const r = tt.periodicLossSystem({ servers: f.n, profile: s.arrivals.profile, meanHolding: f.h });
+    return {
+      callCongestion: r.callCongestion,
+      timeCongestion: r.timeCongestion,
+      carriedTraffic: r.carriedTraffic,
+      truncationBound: r.errorBound,
+      segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, callCongestion: g.callCongestion, timeCongestion: g.timeCongestion })),
+    };
+  },
+};
 
 /** Every reference the lab can set beside a run, in the order they are shown. */
 export const referenceRules: ReferenceRule[] = [
@@ -358,6 +393,7 @@ export const referenceRules: ReferenceRule[] = [
       return { callCongestion: e.blocking, attemptCongestion: e.blocking, lossProbability: e.probabilityFreshCallLost, carriedTraffic: e.carriedTraffic };
     },
   },
+  periodicRule,
   timeVaryingRule("pointwise stationary approximation"),
   timeVaryingRule("modified offered load approximation"),
 ];
@@ -368,9 +404,9 @@ export const referenceRules: ReferenceRule[] = [
  */
 export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: string }> = [
   {
-    when: (s) => s.arrivals.process === "time-varying",
+    when: (s, f) => s.arrivals.process === "time-varying" && !f.exponentialHolding,
     reason:
-      "the load is periodic, not stationary: there is no equilibrium blocking, only a cycle of values; PSA and MOL are the approximations shown (an exact periodic solution of the forward equations is not implemented)",
+      "holding times are not exponential under a time-varying load: out of equilibrium blocking depends on the whole holding-time law, not only its mean (no insensitivity), and every call's elapsed holding time is part of the state, so no finite Markov chain describes it; PSA and MOL are the approximations shown",
   },
   {
     when: (_, f) => !f.exponentialHolding,
@@ -403,6 +439,16 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
   {
     when: (s, f) => s.arrivals.process === "overflow" && f.waiting,
     reason: "overflow traffic with a waiting room: the chain on (primary states, calls in the group) is not implemented",
+  },
+  {
+    when: (s, f) => s.arrivals.process === "time-varying" && f.retrying,
+    reason:
+      "retrials under a time-varying load: the periodic forward equations of the two-dimensional chain (busy servers, calls retrying), truncated in the orbit, would give it; not implemented",
+  },
+  {
+    when: (s, f) => s.arrivals.process === "time-varying" && f.waiting,
+    reason:
+      "waiting positions under a time-varying load: the periodic forward equations of the birth–death chain on N + Q + 1 states (exponential patience) would give it; not implemented",
   },
 ];
 

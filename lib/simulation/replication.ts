@@ -1,7 +1,7 @@
 import type { ReplicationStats } from "./engine";
 import { createReplication, enginePathFor, type EnginePath, type ReplicationLoop } from "./dispatch";
 import { BatchSizeSampler, LawSampler } from "./laws";
-import { mser5Cut } from "./estimators";
+import { mser5Cut } from "./mser5";
 import type { Scenario } from "./scenario";
 
 /** Events per slice between progress reports and cancellation checks (~10-30 ms of work). */

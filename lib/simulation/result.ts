@@ -1,8 +1,8 @@
 import { z } from "zod";
 import type { PartialAggregate, ReplicationRecord } from "./aggregate";
 import { ratioInterval, type Interval } from "./estimators";
-import { referenceSchema, offeredTraffic, type Reference } from "./references";
-import type { Scenario } from "./scenario";
+import { referenceSchema, offeredTraffic, TIME_VARYING_METHODS, type Reference } from "./references";
+import { lawMean, type Scenario } from "./scenario";
 import { callCongestionEstimate } from "./variance-reduction";
 import { warningSchema, warningsFor } from "./warnings";
 
@@ -24,6 +24,38 @@ const intervalSchema = z.object({
   /** No event observed: ciHigh is a one-sided upper confidence bound, not a two-sided interval. */
   upperBoundOnly: z.boolean().optional(),
 });
+
+/**
+ * One segment of a time-varying profile: the estimates over the parts of the measured period that
+ * fall in it (every cycle), with the analytic values there. Intervals are across replications, as
+ * for the cycle measures, with the same clipping and zero-event bound (trials: the segment's calls).
+ */
+const segmentEstimateSchema = z.object({
+  index: z.number().int(),
+  /** Position in the cycle, and the segment's arrival rate and offered traffic λ h. */
+  start: z.number(),
+  end: z.number(),
+  rate: z.number(),
+  offeredTraffic: z.number(),
+  /** Fresh calls offered in the segment, their refused first attempts, and the measured time in it, summed over replications. */
+  calls: z.number(),
+  refused: z.number(),
+  time: z.number(),
+  /** Refused first attempts / calls offered in the segment; absent when its rate is 0 (no call is ever offered there). */
+  callCongestion: intervalSchema.optional(),
+  /**
+   * Fraction of the segment's time with all servers busy. With none observed the bound is over the
+   * segment's calls, so in a segment of rate 0 (no calls) it is [0, 1]: nothing is refused there anyway.
+   */
+  timeCongestion: intervalSchema,
+  /** Retrials or waiting positions: calls that arrived in the segment and were given up / calls offered in it. */
+  lossProbability: intervalSchema.optional(),
+  /** Call congestion of the references in this segment, where computed: PSA, MOL and the exact periodic solution. */
+  psa: z.number().optional(),
+  mol: z.number().optional(),
+  exact: z.number().optional(),
+});
+export type SegmentEstimate = z.infer<typeof segmentEstimateSchema>;
 
 /** What `simulate --json` prints and the worker stores. NaN never appears: JSON has none, so undefined measures are null. */
 export const simulationResultSchema = z.object({
@@ -55,6 +87,8 @@ export const simulationResultSchema = z.object({
   meanWait: intervalSchema.optional(),
   meanWaiting: intervalSchema.optional(),
   abandonmentProbability: intervalSchema.optional(),
+  /** Time-varying profiles only: estimates per profile segment (sum of segment calls = calls; see segmentEstimateSchema). */
+  segments: z.array(segmentEstimateSchema).optional(),
   /** Time fraction at each busy count 0..servers, pooled over replications. */
   occupancy: z.array(z.number()),
   /** Fresh calls discarded per replication as warm-up (MSER-5 when "auto"): mean, min, max. */
@@ -111,6 +145,65 @@ export function zeroEventUpperBound(trials: number, confidence: number): number 
 function probability(ci: Interval, trials: number, confidence: number): Interval {
   if (ci.estimate === 0 && !(ci.standardError > 0)) return { ...ci, ciLow: 0, ciHigh: zeroEventUpperBound(trials, confidence), upperBoundOnly: true };
   return { ...ci, ciLow: Math.max(0, ci.ciLow), ciHigh: Math.min(1, ci.ciHigh) };
+}
+
+/** Time the interval [from, to] spends in each segment of the periodic profile (cycles counted whole, ends by position in the cycle). */
+export function segmentTimes(profile: ReadonlyArray<{ duration: number }>, from: number, to: number): number[] {
+  const cycle = profile.reduce((a, s) => a + s.duration, 0);
+  const out = new Array<number>(profile.length).fill(0);
+  if (!(to > from)) return out;
+  const first = Math.floor(from / cycle);
+  const last = Math.floor(to / cycle);
+  const a = from - first * cycle;
+  const b = to - last * cycle;
+  let start = 0;
+  profile.forEach((s, i) => {
+    const within = (x: number) => Math.min(Math.max(x - start, 0), s.duration);
+    out[i] = Math.max(0, (last - first) * s.duration + within(b) - within(a));
+    start += s.duration;
+  });
+  return out;
+}
+
+/** Per-segment estimates of a time-varying run, beside the references' per-segment values. */
+function segmentEstimates(scenario: Scenario, stats: readonly ReplicationRecord[], references: Reference[], c: number): SegmentEstimate[] | undefined {
+  const a = scenario.arrivals;
+  // Records stored before the per-segment counters existed have none.
+  if (a.process !== "time-varying" || stats.length === 0 || !stats[0].segmentCalls?.length) return undefined;
+  const h = lawMean(scenario.holding);
+  const times = stats.map((r) => segmentTimes(a.profile, r.warmupTime, r.warmupTime + r.time));
+  const valuesOf = (method: string) => references.find((r) => r.method === method && !r.unavailable)?.segments;
+  const psa = valuesOf(TIME_VARYING_METHODS.pointwise);
+  const mol = valuesOf(TIME_VARYING_METHODS.modifiedLoad);
+  const exact = valuesOf(TIME_VARYING_METHODS.periodic);
+  const sum = (v: number[]) => v.reduce((x, y) => x + y, 0);
+  let start = 0;
+  return a.profile.map((segment, i) => {
+    const calls = stats.map((r) => r.segmentCalls[i]);
+    const time = times.map((t) => t[i]);
+    const refused = stats.map((r) => r.segmentBlockedFirst[i]);
+    const trials = sum(calls);
+    const out: SegmentEstimate = {
+      index: i,
+      start,
+      end: start + segment.duration,
+      rate: segment.rate,
+      offeredTraffic: segment.rate * h,
+      calls: trials,
+      refused: sum(refused),
+      time: sum(time),
+      timeCongestion: probability(interval(stats.map((r) => r.segmentAllBusyTime[i]), time, c), trials, c),
+    };
+    if (segment.rate > 0) {
+      out.callCongestion = probability(interval(refused, calls, c), trials, c);
+      if (stats[0].segmentLost.length > 0) out.lossProbability = probability(interval(stats.map((r) => r.segmentLost[i]), calls, c), trials, c);
+    }
+    if (psa?.[i]) out.psa = psa[i].callCongestion;
+    if (mol?.[i]) out.mol = mol[i].callCongestion;
+    if (exact?.[i]) out.exact = exact[i].callCongestion;
+    start += segment.duration;
+    return out;
+  });
 }
 
 /** Result fields that are probabilities (clipped to [0, 1]). */
@@ -182,6 +275,8 @@ export function buildResult(
     result.attemptCongestion = probability(interval(col((s) => s.blockedAttempts), col((s) => s.attempts), c), sum(col((s) => s.attempts)), c);
     result.meanRetrying = interval(col((s) => s.orbitIntegral), time, c);
   }
+  const segments = segmentEstimates(scenario, stats, references, c);
+  if (segments) result.segments = segments;
   if (scenario.waitingPositions > 0) {
     result.lossProbability ??= probability(interval(col((s) => s.lost), calls, c), totalCalls, c);
     result.waitingProbability = probability(interval(col((s) => s.waited), admitted, c), sum(admitted), c);

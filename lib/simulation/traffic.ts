@@ -1,19 +1,13 @@
-import {
-  batchMean,
-  batchPeakedness,
-  erlangB,
-  lawMean,
-  mmppOfferedMoments,
-  overflowMoments,
-  renewalPeakedness,
-  stationaryOfGenerator,
-} from "../teletraffic";
+import { erlangBUnchecked } from "../teletraffic/erlang-b-kernel";
+import { batchMean, lawMean } from "../teletraffic/law-formulas";
+import { stationaryOfGenerator } from "../teletraffic/qbd";
 import type { Arrivals, Scenario } from "./scenario";
 
 /**
- * What a scenario implies about its traffic, in one place: the MMPP phase law, mean call rates,
- * offered traffic and the moments and peakedness of the offered stream. Used by the scenario's
- * workload rules, the engine, the run planner and the references.
+ * What a scenario implies about its traffic: the MMPP phase law, mean call rates and offered
+ * traffic. Used by the scenario's workload rules, the engine, the run planner and the references.
+ * Imports no zod (the replication threads load it); the offered stream's moments and peakedness,
+ * which need the analytic library, are in stream-moments.ts.
  */
 export { batchMean, lawMean, stationaryOfGenerator };
 
@@ -56,7 +50,7 @@ export function freshCallRate(a: Arrivals, meanHolding: number): number {
     case "batch":
       return a.rate * batchMean(a.batchSize);
     case "overflow":
-      return a.primaries.reduce((s, p) => s + p.traffic * erlangB(p.servers, p.traffic), 0) / meanHolding;
+      return a.primaries.reduce((s, p) => s + p.traffic * erlangBUnchecked(p.servers, p.traffic), 0) / meanHolding;
     case "finite-source":
       // Engset's intended traffic S β / (1 + β): what the sources would offer with no blocking
       return (a.sources * a.idleRate) / (1 + a.idleRate * meanHolding);
@@ -80,57 +74,4 @@ export function meanCallRate(scenario: Scenario): number {
 export function offeredTraffic(scenario: Scenario): number {
   if (scenario.arrivals.process === "overflow") return scenario.arrivals.primaries.reduce((s, p) => s + p.traffic, 0);
   return meanCallRate(scenario) * lawMean(scenario.holding);
-}
-
-/** Overflow traffic moments of the primaries, treated as independent (Riordan's formulas per primary). */
-export function overflowStreamMoments(primaries: { traffic: number; servers: number }[]): { mean: number; variance: number } {
-  let mean = 0;
-  let variance = 0;
-  for (const p of primaries) {
-    const m = overflowMoments({ traffic: p.traffic, servers: p.servers }); // servers 0: the direct Poisson stream, peakedness 1
-    mean += m.mean;
-    variance += m.variance;
-  }
-  return { mean, variance };
-}
-
-/**
- * Mean, variance and peakedness of the fresh stream on an infinite group with exponential holding
- * of the scenario's mean; undefined for a time-varying profile (not a stationary stream).
- */
-export function streamMoments(scenario: Scenario): { mean: number; variance: number; peakedness: number; what: string } | undefined {
-  const a = scenario.arrivals;
-  const h = lawMean(scenario.holding);
-  const traffic = meanCallRate(scenario) * h;
-  const mmpp = mmppOf(a);
-  let variance: number;
-  let what: string = a.process;
-  if (mmpp) {
-    const m = mmppOfferedMoments(mmpp.rates, mmpp.switching, h);
-    return { ...m, peakedness: m.variance / m.mean, what: "MMPP" };
-  }
-  switch (a.process) {
-    case "poisson":
-      variance = traffic;
-      break;
-    case "renewal":
-      variance = traffic * renewalPeakedness(a.interarrival, h);
-      break;
-    case "batch":
-      variance = traffic * batchPeakedness(a.batchSize);
-      what = "batch Poisson";
-      break;
-    case "overflow": {
-      const m = overflowStreamMoments(a.primaries);
-      return { ...m, peakedness: m.variance / m.mean, what: "overflow" };
-    }
-    case "finite-source":
-      // busy sources on an infinite group are binomial(S, β/(1 + β)): Z = 1/(1 + β)
-      variance = traffic / (1 + a.idleRate * h);
-      what = "finite-source";
-      break;
-    default:
-      return undefined;
-  }
-  return { mean: traffic, variance, peakedness: variance / traffic, what };
 }

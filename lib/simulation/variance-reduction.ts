@@ -1,4 +1,5 @@
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
+import { solveDense } from "../teletraffic/dense";
 import { erlangB } from "../teletraffic/erlang-b";
 import type { ReplicationRecord } from "./aggregate";
 import type { Interval } from "./estimators";
@@ -171,7 +172,7 @@ export function controlledRatio(y: readonly number[], x: readonly number[], cont
   // S beta = s, S the centred cross-products of the controls.
   const S = raw.map((a) => raw.map((b) => dot(a, b)));
   const s = raw.map((a) => dot(a, centredU));
-  const beta = solve(S, s);
+  const beta = solveDense(S, s);
   const estimate = ubar - beta.reduce((acc, b, j) => acc + b * vbar[j], 0);
   let ss = 0;
   for (let i = 0; i < n; i++) {
@@ -180,7 +181,7 @@ export function controlledRatio(y: readonly number[], x: readonly number[], cont
     ss += e * e;
   }
   const s2 = df > 0 ? ss / df : NaN;
-  const quad = q > 0 ? dot(vbar, solve(S, vbar)) : 0;
+  const quad = q > 0 ? dot(vbar, solveDense(S, vbar)) : 0;
   const standardError = Math.sqrt(s2 * (1 / n + quad));
   const halfWidth = df > 0 ? tQuantile(0.5 + confidence / 2, df) * standardError : NaN;
   return { estimate, standardError, halfWidth, ciLow: estimate - halfWidth, ciHigh: estimate + halfWidth, method: "", degreesOfFreedom: df, used: used.map((c) => c.name) };
@@ -192,22 +193,6 @@ function dot(a: readonly number[], b: readonly number[]): number {
   return s;
 }
 
-/** Solves a small symmetric positive-definite system (Gaussian elimination with partial pivoting). */
-function solve(a: number[][], b: number[]): number[] {
-  const k = b.length;
-  const m = a.map((row, i) => [...row, b[i]]);
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let r = c + 1; r < k; r++) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
-    [m[c], m[p]] = [m[p], m[c]];
-    for (let r = 0; r < k; r++) {
-      if (r === c) continue;
-      const f = m[r][c] / m[c][c];
-      for (let j = c; j <= k; j++) m[r][j] -= f * m[c][j];
-    }
-  }
-  return m.map((row, i) => row[k] / row[i]);
-}
 
 /**
  * The reported call-congestion estimate: the intensity estimator where it is valid, else the

@@ -81,6 +81,17 @@ export const warningRules: WarningRule[] = [
           message: `No event observed over the measured ${trials}, so there is no two-sided interval; at ${pct(result.confidence)} confidence the value is below ${fmt(m.ciHigh)} (one-sided upper bound).`,
         });
       }
+      // The same per profile segment, one warning per measure naming the segments; segments with
+      // rate 0 are left out: no call arrives there, so nothing is refused whatever the busy time.
+      for (const measure of ["callCongestion", "timeCongestion", "lossProbability"] as const) {
+        const hit = (result.segments ?? []).filter((g) => g.rate > 0 && g[measure]?.upperBoundOnly);
+        if (hit.length === 0) continue;
+        out.push({
+          code: "no-event-observed",
+          measure: `segments.${measure}`,
+          message: `No event observed in profile segment${hit.length > 1 ? "s" : ""} ${hit.map((g) => g.index + 1).join(", ")} (of ${result.segments!.length}), so ${measure} there has no two-sided interval; at ${pct(result.confidence)} confidence each value is below its ciHigh (one-sided upper bound over the segment's calls).`,
+        });
+      }
       return out;
     },
   },

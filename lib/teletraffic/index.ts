@@ -25,6 +25,7 @@
  *   retrialLossSystem({ servers, traffic | sources+idleRate, persistence, meanRetryDelay, waitingPositions?, meanPatience?, meanHolding? }): RetrialLossResult
  *   patienceQueue / engsetQueue / retrialServers / erlangCServers / engsetServers / mmppQueueSystem
  *   streamPeakedness({ stream, meanHolding?, servers? }), timeVaryingLoss({ servers, profile, meanHolding? })
+ *   periodicLossSystem({ servers, profile, meanHolding?, tolerance? }): PeriodicLossResult   // exact M(t)/M/N/N
  *   overflowLossSystem({ primaries: [{ traffic, servers }], servers }): OverflowLossResult
  *   kaufmanRoberts({ capacity, classes: [{ traffic, bandwidth }] }): KaufmanRobertsResult
  *   analyticOperations[name].evaluate(input): Record<string, unknown>
@@ -177,6 +178,16 @@ export {
   type TimeVaryingResult,
   type TimeVaryingSegment,
 } from "./time-varying";
+export {
+  periodicLossInputSchema,
+  periodicLossSystem,
+  periodicLossWork,
+  INTERACTIVE_PERIODIC_WORK,
+  MAX_PERIODIC_WORK,
+  type PeriodicLossInput,
+  type PeriodicLossResult,
+  type PeriodicLossSegment,
+} from "./periodic-loss";
 export {
   overflowLossInputSchema,
   overflowLossSystem,

@@ -36,6 +36,7 @@ import {
 } from "./markov-systems";
 import { peakednessInputSchema, streamPeakedness } from "./peakedness";
 import { INTERACTIVE_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
+import { INTERACTIVE_PERIODIC_WORK, MAX_PERIODIC_WORK, periodicLossInputSchema, periodicLossSystem } from "./periodic-loss";
 import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
 import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
@@ -129,6 +130,12 @@ export const analyticOperations = {
     timeVaryingInputSchema,
     timeVaryingLoss,
     `interactive up to segments × nodes × (N + 1) = ${INTERACTIVE_TIME_VARYING_WORK}`,
+  ),
+  "periodic-loss": operation(
+    "time-varying load with exponential holding: exact periodic blocking per segment and over the cycle (forward equations, stated error bound)",
+    periodicLossInputSchema,
+    periodicLossSystem,
+    `interactive up to about ${INTERACTIVE_PERIODIC_WORK} state updates ((N + 1) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
   ),
   "overflow-loss": operation("exact overflow network beside equivalent random and Hayward", overflowLossInputSchema, overflowLossSystem),
   "multi-rate": operation("multi-rate loss link, Kaufman–Roberts recursion: per-class blocking", kaufmanRobertsInputSchema, kaufmanRoberts),

@@ -1,38 +1,18 @@
 import { z } from "zod";
-import { assertFiniteResult, inputError, parseInput, TeletrafficInputError } from "./errors";
+import { assertFiniteResult, parseInput, TeletrafficInputError } from "./errors";
 import { batchMoments, batchSizeSchema, lawMean, lawSchema, type BatchSizeLaw } from "./laws";
-import { phaseStationary } from "./qbd";
+import { solveDense } from "./dense";
+import { stationaryOfGenerator } from "./qbd";
 import { renewalPeakedness } from "./renewal";
 import { equivalentRandomUnchecked, MAX_STREAM_MEAN, MAX_STREAM_VARIANCE } from "./overflow";
 import { erlangBUnchecked } from "./erlang-b";
 import { mmppPhasesSchema, mmppShapeIsSquare } from "./mmpp";
 
-/** Stationary law of a small irreducible generator given by its off-diagonal rates (GTH), as a plain array. */
-export function stationaryOfGenerator(switching: number[][]): number[] {
-  const k = switching.length;
-  if (k === 1) return [1];
-  const rates = new Float64Array(k * k);
-  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) rates[i * k + j] = i === j ? 0 : switching[i][j];
-  const theta = phaseStationary(rates, k);
-  if (!theta) throw inputError("switching", "the phase process must be irreducible (every phase reachable from every other)");
-  return Array.from(theta);
-}
+export { stationaryOfGenerator };
 
-/** Solves x A = b for a small dense matrix (Gaussian elimination with partial pivoting). */
+/** Solves x A = b: the transposed system A^T x^T = b^T. */
 function solveRowSystem(a: number[][], b: number[]): number[] {
-  const k = b.length;
-  const m = Array.from({ length: k }, (_, i) => [...Array.from({ length: k }, (_, j) => a[j][i]), b[i]]);
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let r = c + 1; r < k; r++) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
-    [m[c], m[p]] = [m[p], m[c]];
-    for (let r = 0; r < k; r++) {
-      if (r === c) continue;
-      const f = m[r][c] / m[c][c];
-      for (let j = c; j <= k; j++) m[r][j] -= f * m[c][j];
-    }
-  }
-  return m.map((row, i) => row[k] / row[i]);
+  return solveDense(a[0].map((_, i) => a.map((row) => row[i])), b);
 }
 
 /**

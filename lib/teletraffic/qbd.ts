@@ -1,3 +1,5 @@
+import { inputError } from "./errors";
+
 /**
  * Stationary distribution of a finite level-dependent QBD whose level is the number of busy
  * servers j = 0..N and whose phase is an autonomous environment (k phases):
@@ -193,6 +195,17 @@ export function phasesAreIrreducible(k: number, rate: (from: number, to: number)
 export function phaseStationary(phaseRates: Float64Array, k: number): Float64Array | null {
   if (!phasesAreIrreducible(k, (i, l) => phaseRates[i * k + l])) return null;
   return gthStationary(phaseRates, k);
+}
+
+/** Stationary law of a small irreducible generator given by its off-diagonal rates (GTH), as a plain array. */
+export function stationaryOfGenerator(switching: number[][]): number[] {
+  const k = switching.length;
+  if (k === 1) return [1];
+  const rates = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) rates[i * k + j] = i === j ? 0 : switching[i][j];
+  const theta = phaseStationary(rates, k);
+  if (!theta) throw inputError("switching", "the phase process must be irreducible (every phase reachable from every other)");
+  return Array.from(theta);
 }
 
 /** Sparse autonomous phase process: transitions into phase l are inFrom/inRate[inStart[l] .. inStart[l+1]). */

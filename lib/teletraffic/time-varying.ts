@@ -10,18 +10,28 @@ const NODES = 8;
 /** After this many mean holding times the modified offered load equals λ h to double precision. */
 const SETTLED = 40;
 
+/** The periodic piecewise-constant arrival rate, shared with the exact periodic solution (periodic-loss.ts). */
+export const profileField = z
+  .array(z.object({ duration: z.number().gt(0).max(1e12), rate: z.number().min(0).max(1e9) }))
+  .min(1)
+  .max(1000)
+  .describe("the arrival-rate cycle: segments {duration, rate}, repeated for ever");
+export const timeVaryingServersField = z.number().int().min(1).max(100_000).describe("integer number of servers N");
+export const timeVaryingHoldingField = z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time, default 1");
+
+/** A profile with no traffic at all has no call congestion to report. */
+export function refineProfileHasTraffic(profile: Array<{ rate: number }>, ctx: z.RefinementCtx): void {
+  if (!profile.some((s) => s.rate > 0)) ctx.addIssue({ code: "custom", path: ["profile"], message: "at least one segment needs a rate > 0" });
+}
+
 export const timeVaryingInputSchema = z
   .object({
-    servers: z.number().int().min(1).max(100_000).describe("integer number of servers N"),
-    profile: z
-      .array(z.object({ duration: z.number().gt(0).max(1e12), rate: z.number().min(0).max(1e9) }))
-      .min(1)
-      .max(1000)
-      .describe("the arrival-rate cycle: segments {duration, rate}, repeated for ever"),
-    meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time, default 1"),
+    servers: timeVaryingServersField,
+    profile: profileField,
+    meanHolding: timeVaryingHoldingField,
   })
   .superRefine((v, ctx) => {
-    if (!v.profile.some((s) => s.rate > 0)) ctx.addIssue({ code: "custom", path: ["profile"], message: "at least one segment needs a rate > 0" });
+    refineProfileHasTraffic(v.profile, ctx);
     const work = timeVaryingWork(v.servers, v.profile, v.meanHolding);
     if (work > MAX_TIME_VARYING_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `segments × nodes × N = ${work} exceeds ${MAX_TIME_VARYING_WORK}` });
   })
@@ -90,6 +100,21 @@ function gaussLegendre(n: number): { x: number[]; w: number[] } {
 const RULE = gaussLegendre(NODES);
 
 /**
+ * The periodic mean load m(0) at the cycle start of the same arrivals on infinitely many servers
+ * (m' = λ(t) − m/h): one cycle from 0 gives m(T) = A, and m(T) = A + e^{−T/h} m(0) at the periodic
+ * solution, so m(0) = A / (1 − e^{−T/h}).
+ */
+export function periodicInfiniteServerLoad(profile: ReadonlyArray<{ duration: number; rate: number }>, meanHolding: number): number {
+  let m = 0;
+  let cycle = 0;
+  for (const s of profile) {
+    m = s.rate * meanHolding + (m - s.rate * meanHolding) * Math.exp(-s.duration / meanHolding);
+    cycle += s.duration;
+  }
+  return m / -Math.expm1(-cycle / meanHolding);
+}
+
+/**
  * Pointwise stationary approximation (Green & Kolesar 1991, Management Science 37): Erlang B at
  * each segment's own traffic. Modified offered load (Jagerman 1975, "Nonstationary blocking in
  * telephone traffic", BSTJ 54; Massey & Whitt 1994, Ann. Appl. Probab. 4): Erlang B at the mean
@@ -101,11 +126,7 @@ const RULE = gaussLegendre(NODES);
 export function timeVaryingLoss(input: TimeVaryingInput): TimeVaryingResult {
   const { servers: n, profile, meanHolding: h } = parseInput(timeVaryingInputSchema, input);
   const cycle = profile.reduce((s, p) => s + p.duration, 0);
-  // periodic start of the infinite-server load
-  let m = 0;
-  for (const s of profile) m = s.rate * h + (m - s.rate * h) * Math.exp(-s.duration / h);
-  const decay = -Math.expm1(-cycle / h);
-  let load = m / decay;
+  let load = periodicInfiniteServerLoad(profile, h);
   const segments: TimeVaryingSegment[] = [];
   let start = 0;
   let calls = 0;

@@ -95,15 +95,22 @@ function timeCli(c: Case): number {
 
 const ratio = (x: number | undefined) => (x === undefined ? "   -  " : `${x.toFixed(2).padStart(5)}x`);
 
-export async function runSimulationBench(): Promise<void> {
-  console.log("\nsimulation engine: ratios measured in this run (higher is faster; x C = C seconds / JS seconds for the same calls)");
+export const simulationCaseNames = cases.map((c) => c.name);
+
+async function useBundles(): Promise<void> {
   await bundleWorkers({ log: (line) => console.log(`  ${line}`) });
   process.env.SPILLWAY_BUNDLE_DIR ??= defaultBundleDir;
+}
+
+/** The per-arrival-kind table; `only` limits it to the named cases. */
+export async function runSimulationBench(only?: string[]): Promise<void> {
+  console.log("\nsimulation engine: ratios measured in this run (higher is faster; x C = C seconds / JS seconds for the same calls)");
+  await useBundles();
   const binary = compileC();
   console.log(
     `  ${"arrival kind".padEnd(44)} ${"reference".padStart(11)}  ${"specialised".padStart(11)} ${"vs ref".padStart(7)} ${"vs C".padStart(7)}  ${"markov vs C".padStart(11)}  ${"CLI vs C".padStart(9)}`,
   );
-  for (const c of cases) {
+  for (const c of cases.filter((c) => !only || only.includes(c.name))) {
     const reference = timeLoop(c, "reference");
     const specialised = timeLoop(c, "specialised");
     const dispatched = enginePathFor(scenarioOf(c, 2, c.calls));
@@ -118,7 +125,12 @@ export async function runSimulationBench(): Promise<void> {
       console.log(`    note: the C loop's blocking ${cRun.blocking.toFixed(5)} differs from the JS loop's ${specialised.blocking.toFixed(5)}: the two models are out of step`);
   }
   console.log("  (M/s = fresh calls per second on one core; the CLI column runs the dispatched path, start-up included; 'markov' where the dispatcher picks it)");
+}
 
+/** Worker pool start-up and the speed-up of two threads over one. */
+export async function runStartupBench(): Promise<void> {
+  console.log("\nreplication threads");
+  await useBundles();
   // Worker pool start-up: time from creating a 2-thread pool to the answer of a tiny request.
   const tiny = parseScenario({ servers: 2, arrivals: { process: "poisson", rate: 1 }, holding: exp1, run: { seed: 1, replications: 2, callsPerReplication: 100 } });
   const t0 = performance.now();

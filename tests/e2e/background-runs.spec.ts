@@ -57,6 +57,9 @@ test("a token submits a run, a sweep, a grid and a sizing search that finish wit
   const search = await api.post(path("/sweeps"), { data: { scenario: scenario(8, 20_000), kind: "dimensioning", targetBlocking: 0.01, maxProbes: 12 } });
   for (const r of [sweep, grid, search]) expect(r.status(), await r.text()).toBe(202);
 
+  // Poll all four from the moment they are accepted, so each one's unfinished states are seen.
+  const sweepIds = await Promise.all([sweep, grid, search].map(async (r) => (await r.json()).id as string));
+  const watching = Promise.all(sweepIds.map((id) => waitFor(api, path(`/sweeps/${id}`), 240_000)));
   const ranRun = await waitFor(api, path(`/runs/${runId}`), 240_000);
   expect(ranRun.final.status).toBe("succeeded");
   expect(ranRun.final.progress).toEqual({ replicationsDone: 40, replicationsPlanned: 40, fraction: 1 });
@@ -68,7 +71,7 @@ test("a token submits a run, a sweep, a grid and a sizing search that finish wit
   expect(fractions).toEqual([...fractions].sort((a, b) => a - b));
   expect(ranRun.live.some((r) => r.status === "running" && r.progress.fraction > 0 && r.progress.fraction < 1)).toBe(true);
 
-  const sweeps = await Promise.all([sweep, grid, search].map(async (r) => waitFor(api, path(`/sweeps/${(await r.json()).id}`), 240_000)));
+  const sweeps = await watching;
   for (const s of sweeps) {
     expect(s.final.status).toBe("succeeded");
     expect(s.final.progress.fraction).toBe(1);

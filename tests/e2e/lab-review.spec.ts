@@ -3,7 +3,7 @@ import { account, signInAs, waitForMail } from "./support/helpers";
 import { screenshot } from "./support/lab";
 
 // A reviewer approves a result with a comment; the submitter is e-mailed and the audit log has who and when.
-test("reviewer approves a run with a comment and the submitter gets the e-mail", async ({ page }) => {
+test("reviewer approves a run with a comment and the submitter gets the e-mail", async ({ page, browser }) => {
   await signInAs(page, "reviewer");
   const waiting = page.getByTestId("waiting-review");
   const link = waiting.getByRole("link", { name: /Reed Lane help desk/ });
@@ -26,7 +26,11 @@ test("reviewer approves a run with a comment and the submitter gets the e-mail",
   const mail = await waitForMail(account("engineer").email, since, 30_000);
   expect(mail.subject).toMatch(/approved/i);
 
-  await signInAs(page, "admin");
-  await page.goto("/w/kestrel-fen/audit");
-  await expect(page.getByRole("row").filter({ hasText: "review.approved" }).first()).toBeVisible();
+  // The admin reads the audit trail in a separate browser session (the reviewer's is still signed in).
+  const adminContext = await browser.newContext();
+  const admin = await adminContext.newPage();
+  await signInAs(admin, "admin");
+  await admin.goto("/w/kestrel-fen/audit");
+  await expect(admin.getByRole("row").filter({ hasText: "review.approved" }).first()).toBeVisible();
+  await adminContext.close();
 });

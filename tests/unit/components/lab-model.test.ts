@@ -119,7 +119,7 @@ describe("verdict", () => {
     expect(v.formulaServers).toBe(sized);
     expect(v.formulaBlocking).toBeCloseTo(b, 12);
     expect(v.sentence).toContain(`at ${sized} circuits`);
-    expect(v.sentence).toContain(`missing the ${formatPercent(0.01)} target by ${formatPoints(0.04)}`);
+    expect(v.sentence).toContain(`missing the ${formatPercent(0.01)} target by ${formatPoints(0.04).replace(/^\+/, "")}`);
   });
 
   it("holds when the whole interval is at or below the target, and cannot tell when it straddles it", () => {

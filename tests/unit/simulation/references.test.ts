@@ -49,7 +49,8 @@ describe("references registry", () => {
     expect(exactFor(arrivals[3], features[0][1])).toBe(true); // Weibull renewal
     expect(exactFor(arrivals[0], features[5][1])).toBe(false); // attempt limit
     expect(exactFor(arrivals[0], features[6][1])).toBe(false); // non-exponential retry delay
-    expect(exactFor(arrivals[7], features[0][1])).toBe(false); // time-varying
+    expect(exactFor(arrivals[7], features[0][1])).toBe(true); // time-varying: the exact periodic solution
+    expect(exactFor(arrivals[7], features[1][1])).toBe(false); // time-varying with waiting positions
   });
   it("non-exponential holding: Erlang B and Engset stay exact (insensitivity), the chains do not", () => {
     const lognormal = { law: "lognormal" as const, mean: 1, cv: 2 };
@@ -74,6 +75,22 @@ describe("references registry", () => {
     expect(mol.segments).toHaveLength(2);
     const flat = referencesFor(parseScenario({ servers: 5, arrivals: { process: "time-varying", profile: [{ duration: 1, rate: 3 }] }, holding: exponential(1), run }));
     expect(flat.find((r) => r.method === "pointwise stationary approximation")!.callCongestion).toBeCloseTo(erlangB(5, 3), 14);
+  });
+  it("time-varying load with exponential holding: the exact periodic solution is the exact reference, per segment too", () => {
+    const refs = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[7], holding: exponential(1), run }));
+    const exact = refs.find((r) => r.method === "M(t)/M/N/N periodic exact solution")!;
+    expect(exact.exact).toBe(true);
+    expect(exact.segments).toHaveLength(2);
+    expect(exact.truncationBound).toBeLessThanOrEqual(1e-12);
+    // Offered calls 2 × 2 and 9 × 1 per cycle: the cycle's call congestion is their weighted mean of the segments'.
+    expect(exact.callCongestion).toBeCloseTo((4 * exact.segments![0].callCongestion + 9 * exact.segments![1].callCongestion) / 13, 14);
+    expect(refs.some((r) => r.method === "exact reference")).toBe(false);
+    const flat = referencesFor(parseScenario({ servers: 5, arrivals: { process: "time-varying", profile: [{ duration: 1, rate: 3 }] }, holding: exponential(1), run }));
+    expect(flat.find((r) => r.method === "M(t)/M/N/N periodic exact solution")!.callCongestion).toBeCloseTo(erlangB(5, 3), 13);
+    // Out of equilibrium the holding law matters beyond its mean: no exact reference, and the reason says why.
+    const lognormal = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[7], holding: { law: "lognormal", mean: 1, cv: 2 }, run }));
+    expect(lognormal.some((r) => r.method === "M(t)/M/N/N periodic exact solution")).toBe(false);
+    expect(lognormal.find((r) => r.method === "exact reference")!.unavailable).toMatch(/no insensitivity/);
   });
   it("an interactive caller gets large cases flagged as background work, not computed", () => {
     const k = 16;

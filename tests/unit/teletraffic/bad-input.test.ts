@@ -97,6 +97,7 @@ describe("operation registry", () => {
         "retrial-loss",
         "retrial-servers",
         "time-varying-loss",
+        "periodic-loss",
         "overflow-moments",
         "equivalent-random",
         "hayward",
@@ -148,6 +149,7 @@ describe("operation registry", () => {
       "engset-servers": { sources: 20, idleRate: 0.2, target: 0.01 },
       peakedness: { stream: { process: "renewal", interarrival: { law: "lognormal", mean: 0.1, cv: 2 } }, servers: 12 },
       "time-varying-loss": { servers: 10, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }] },
+      "periodic-loss": { servers: 10, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }] },
       "overflow-loss": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4 },
       "multi-rate": { capacity: 20, classes: [{ traffic: 5, bandwidth: 1 }, { traffic: 1, bandwidth: 4 }] },
     };
