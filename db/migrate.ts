@@ -3,6 +3,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { migrate } from "drizzle-orm/node-postgres/migrator";
 import { createDatabase } from "./client";
+import { databaseUrl } from "../lib/config";
 
 export const migrationsFolder = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../drizzle");
 
@@ -16,9 +17,11 @@ export async function runMigrations(url: string): Promise<void> {
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const url = process.env.DATABASE_URL;
-  if (!url) {
-    console.error("migrate: DATABASE_URL is not set");
+  let url: string;
+  try {
+    url = databaseUrl();
+  } catch (error) {
+    console.error(`migrate: ${(error as Error).message}`);
     process.exit(2);
   }
   runMigrations(url)

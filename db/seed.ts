@@ -6,6 +6,7 @@ import { memberships, users, workspaces } from "./schema";
 import { hashPassword, verifyPassword } from "../lib/secrets/password";
 import { seedDemoLab } from "./demo-lab";
 import { seedDemoTraffic } from "./demo-traffic";
+import { databaseUrl } from "../lib/config";
 
 export async function seedDemo(db: Database, log: (line: string) => void = () => {}): Promise<void> {
   await seedAccounts(db);
@@ -56,7 +57,7 @@ async function seedAccounts(db: Database): Promise<void> {
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const { db, pool } = createDatabase(process.env.DATABASE_URL ?? "", 2);
+  const { db, pool } = createDatabase(databaseUrl(), 2);
   seedDemo(db, console.log)
     .then(() => console.log("Demo workspace seeded."))
     .catch((error) => {

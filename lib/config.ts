@@ -77,3 +77,13 @@ export const analyticPoolConfig = {
   /** Evaluations one user may have in flight at once; more are refused with 429. */
   perUser: (): number => positiveInteger("SPILLWAY_ANALYTIC_PER_USER", 2),
 };
+
+/** A worker process's settings (`npm run worker`, and each process `npm start` supervises). */
+export const workerConfig = {
+  /** Replication threads per worker process; default one per core. */
+  threads: (cores: number): number => positiveInteger("SPILLWAY_WORKER_THREADS", cores),
+  /** Chunks a process fetches ahead of its free threads, so a thread never waits on the queue. */
+  chunkLookahead: (): number => positiveInteger("SPILLWAY_CHUNK_LOOKAHEAD", 4),
+  /** Seconds a stopping worker lets running chunks finish before it hands them back to the queue. */
+  graceSeconds: (): number => positiveInteger("SPILLWAY_WORKER_GRACE_SECONDS", 20),
+};

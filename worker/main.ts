@@ -7,6 +7,7 @@ import { allQueueNames, parsePayload, queues, type QueueName } from "../lib/jobs
 import { createReplicationRunner } from "../lib/simulation/node";
 import { createDatabase } from "../db/client";
 import { createBoss } from "../db/queue";
+import { databaseUrl, workerConfig } from "../lib/config";
 import { ChunkStopped, type WorkerContext } from "./context";
 import { handlers, type HandlerEntry } from "./handlers";
 
@@ -26,18 +27,10 @@ export interface RunningWorker {
   stop(graceMs?: number): Promise<void>;
 }
 
-function positiveIntegerFromEnv(name: string, fallback: number): number {
-  const raw = process.env[name];
-  if (raw === undefined || raw === "") return fallback;
-  const value = Number(raw);
-  if (!Number.isInteger(value) || value < 1) throw new Error(`${name} must be a whole number >= 1, not "${raw}"`);
-  return value;
-}
-
 export async function startWorker(databaseUrl: string, options: WorkerOptions = {}): Promise<RunningWorker> {
   const log = options.log ?? ((line: string) => console.log(line));
-  const threads = options.threads ?? positiveIntegerFromEnv("SPILLWAY_WORKER_THREADS", availableParallelism());
-  const lookahead = positiveIntegerFromEnv("SPILLWAY_CHUNK_LOOKAHEAD", 4);
+  const threads = options.threads ?? workerConfig.threads(availableParallelism());
+  const lookahead = workerConfig.chunkLookahead();
   const { db, pool } = createDatabase(databaseUrl, threads + 4);
   const boss = await createBoss(databaseUrl, "worker");
   boss.on("error", (error) => log(`pg-boss: ${error.message}`));
@@ -86,7 +79,7 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
   log(`worker ${context.name} ready: ${threads} replication thread${threads === 1 ? "" : "s"}; queues: ${allQueueNames.join(", ")}`);
 
   let stopping: Promise<void> | undefined;
-  const stop = (graceMs = positiveIntegerFromEnv("SPILLWAY_WORKER_GRACE_SECONDS", 20) * 1000) =>
+  const stop = (graceMs = workerConfig.graceSeconds() * 1000) =>
     (stopping ??= (async () => {
       for (const queue of allQueueNames) await boss.offWork(queue);
       const deadline = Date.now() + graceMs;
@@ -105,9 +98,11 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const url = process.env.DATABASE_URL;
-  if (!url) {
-    console.error("worker: DATABASE_URL is not set");
+  let url: string;
+  try {
+    url = databaseUrl();
+  } catch (error) {
+    console.error(`worker: ${(error as Error).message}`);
     process.exit(2);
   }
   // Synchronous writes: pipe output is otherwise lost when the process exits right after a line.

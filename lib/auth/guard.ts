@@ -62,10 +62,15 @@ export async function currentUser(): Promise<SignedInUser | null> {
 }
 
 /** Signed-in (session or token), no workspace: throws AccessError(401). */
-export async function requireUser(): Promise<SignedInUser> {
+export async function requireCaller(): Promise<Caller> {
   const caller = await resolveCaller();
   if (!caller) throw new AccessError(401, "unauthenticated", "Sign in to continue.");
-  return caller.user;
+  return caller;
+}
+
+/** The signed-in user (session or token), no workspace: throws AccessError(401). */
+export async function requireUser(): Promise<SignedInUser> {
+  return (await requireCaller()).user;
 }
 
 /**

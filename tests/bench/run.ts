@@ -24,9 +24,14 @@ for (let i = 0; i < args.length; i++) {
     const value = arg === "--cases" ? args[++i] : arg.slice("--cases=".length);
     cases = (value ?? "").split(",").filter(Boolean);
     const unknown = cases.filter((c) => !simulationCaseNames.includes(c));
-    if (unknown.length || !cases.length) throw new Error(`unknown or missing case ${unknown.join(", ")}; ${usage}`);
+    if (unknown.length || !cases.length) refuse(`unknown or missing case ${unknown.join(", ")}`);
   } else if (arg in sections) chosen.push(arg);
-  else throw new Error(`unknown argument "${arg}"; ${usage}`);
+  else refuse(`unknown argument "${arg}"`);
+}
+
+function refuse(message: string): never {
+  console.error(`bench: ${message}; ${usage}`);
+  process.exit(2);
 }
 
 async function main() {

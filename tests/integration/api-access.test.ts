@@ -28,6 +28,7 @@ const m = {
   sweepCancel: await import(`${base}/sweeps/[id]/cancel/route`),
   sweepCsv: await import(`${base}/sweeps/[id]/export.csv/route`),
   sweepJson: await import(`${base}/sweeps/[id]/export.json/route`),
+  workspaces: await import("@/app/api/v1/workspaces/route"),
 };
 
 let harness: Harness;
@@ -109,6 +110,21 @@ describe("every route's role rules", () => {
       expect([200, 201, 202], route.name).toContain((await request(route, { token })).status);
     }
     expect((await request(routes[0], { token }, team.otherSlug)).status).toBe(404);
+  });
+
+  it("lists only the token's own workspace to a token, and every membership to a session", async () => {
+    // The engineer also belongs to the other workspace; a token made in this one must not reveal it.
+    await db.insert(memberships).values({ userId: team.users.engineer, workspaceId: team.otherWorkspaceId, role: "viewer" });
+    try {
+      const token = await tokenFor(db, team, "engineer");
+      const viaToken = await call(m.workspaces.GET, {}, { caller: { token } });
+      expect(viaToken.status).toBe(200);
+      expect(viaToken.body.workspaces.map((w: { slug: string }) => w.slug)).toEqual([team.slug]);
+      const viaSession = await call(m.workspaces.GET, {}, { caller: { session: team.users.engineer } });
+      expect(viaSession.body.workspaces.map((w: { slug: string }) => w.slug).sort()).toEqual([team.slug, team.otherSlug].sort());
+    } finally {
+      await db.delete(memberships).where(and(eq(memberships.userId, team.users.engineer), eq(memberships.workspaceId, team.otherWorkspaceId)));
+    }
   });
 
   it("gives a viewer's token the viewer's rights, and follows a role change at once", async () => {
