@@ -2,6 +2,7 @@
 // tens of milliseconds instead of transpiling the TypeScript sources on every start. The bundle is
 // rebuilt first (lib/ops/bundle.ts, the one bundler and entry table) when any of its inputs changed.
 // Plain Node on purpose: this file is what avoids the TypeScript loader.
+import { isAscii } from "node:buffer";
 import { spawnSync } from "node:child_process";
 import { existsSync, readFileSync, renameSync, statSync, writeFileSync } from "node:fs";
 import { createRequire } from "node:module";
@@ -50,7 +51,9 @@ if (!fresh()) {
  * Any trouble with the cache falls back to compiling as usual.
  */
 function runBundle(file) {
-  const source = readFileSync(file, "utf8");
+  // The bundle is ASCII (lib/ops/bundle.ts): decoded as Latin-1 it is the same text, read in a third of the time.
+  const bytes = readFileSync(file);
+  const source = bytes.toString(isAscii(bytes) ? "latin1" : "utf8");
   const cacheFile = `${file}.v8-cache`;
   const stats = statSync(file);
   const key = `${process.version} ${process.arch} ${stats.size}:${stats.mtimeMs}`;

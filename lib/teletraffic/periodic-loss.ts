@@ -158,7 +158,7 @@ interface SegmentPlan {
   tailOverBig: Float64Array;
   massLeft: number;
   integralLeft: number;
-  /** Erlang's law at λ h (undefined above the distribution's traffic limit: no early settling there). */
+  /** Erlang's law at λ h, for early settling (undefined for segments shorter than h or above the distribution's traffic limit). */
   equilibrium?: Float64Array;
 }
 
@@ -204,7 +204,8 @@ function planSegment(start: number, duration: number, rate: number, n: number, m
     tailOverBig,
     massLeft: leftBound,
     integralLeft,
-    equilibrium: rate * h <= MAX_TRAFFIC ? Float64Array.from(erlangBStateDistribution(n, rate * h)) : undefined,
+    // Only segments of a holding time or more can settle; shorter ones keep no (N + 1)-vector.
+    equilibrium: duration >= h && rate * h <= MAX_TRAFFIC ? Float64Array.from(erlangBStateDistribution(n, rate * h)) : undefined,
   };
 }
 
