@@ -17,7 +17,7 @@ const cli = path.join(bundleDir, "cli.js");
 /**
  * Same test as lib/ops/bundle.ts (every input recorded in the manifest still has its size and mtime),
  * except that npm's record of the installed packages, when the manifest has it, stands for the ~500
- * package files: npm rewrites it on every install, and one stat instead of 500 saves ~30 ms a command.
+ * package files: npm rewrites it on every install, and one stat instead of 500 saves about 30 ms a command.
  */
 function fresh() {
   if (!existsSync(cli)) return false;

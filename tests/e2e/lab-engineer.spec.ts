@@ -30,7 +30,7 @@ test("engineer builds an on-off scenario, runs it and reads the verdict", async 
   await expect(panel.getByTestId("offered-traffic")).toContainText("20 E");
 
   // Small and quick: 4 replications of 5 000 calls.
-  await page.getByLabel("Replications", { exact: true }).fill("4");
+  await page.getByRole("spinbutton", { name: "Replications", exact: true }).fill("4");
   await page.getByLabel("Calls per replication").fill("5000");
   await page.getByLabel("Warm-up calls").fill("500");
   await screenshot(page, "scenario-editor");

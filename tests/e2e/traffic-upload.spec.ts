@@ -36,7 +36,7 @@ test("engineer goes from the demo call records to a finished run with a verdict"
   await page.getByTestId("open-scenario").click();
   await expect(page).toHaveURL(/\/w\/kestrel-fen\/scenarios\/[\w-]+$/);
   // Small and quick: 4 replications of 5 000 calls.
-  await page.getByLabel("Replications", { exact: true }).fill("4");
+  await page.getByRole("spinbutton", { name: "Replications", exact: true }).fill("4");
   await page.getByLabel("Calls per replication").fill("5000");
   await page.getByLabel("Warm-up calls").fill("500");
   await page.getByRole("button", { name: "Save and run" }).click();
