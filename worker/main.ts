@@ -9,6 +9,7 @@ import { createDatabase } from "../db/client";
 import { createBoss } from "../db/queue";
 import { databaseUrl, workerConfig } from "../lib/config";
 import { ChunkStopped, type WorkerContext } from "./context";
+import { closeMeasurementPool } from "./measurement-pool";
 import { handlers, type HandlerEntry } from "./handlers";
 
 export interface WorkerOptions {
@@ -92,6 +93,7 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
         boss.stop({ graceful: true, wait: true, timeout: 10_000 }).catch(() => resolve());
       });
       await runner.close();
+      await closeMeasurementPool();
       await pool.end();
     })());
   return { context, boss, stop };

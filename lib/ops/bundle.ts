@@ -17,6 +17,7 @@ export interface WorkerEntry {
 export const workerEntries: WorkerEntry[] = [
   { name: "analytic-worker", source: "lib/analytic-pool/worker.ts" },
   { name: "replication-worker", source: "lib/simulation/replication-worker.ts" },
+  { name: "measurement-worker", source: "worker/measurement-thread.ts" },
   // The command line runs from this bundle too (lib/cli/launch.mjs); its pool finds replication-worker.js beside it.
   { name: "cli", source: "lib/cli/main.ts" },
 ];

@@ -2,10 +2,11 @@
 // to the upload row while it reads, and store the characterisation, or a clear error on the row.
 import type PgBoss from "pg-boss";
 import type { Payload } from "../../lib/jobs/contracts";
-import { characterise, MeasurementInputError, readMeasurementCsv } from "../../lib/measurement";
+import { MeasurementInputError, readMeasurementCsv, type Characterisation } from "../../lib/measurement";
 import { postgresObjectStore } from "../../db/queries/objects";
 import { failUpload, findUploadForWork, finishUpload, markUploadCharacterising, setUploadProgress } from "../../db/queries/uploads";
 import type { WorkerContext } from "../context";
+import { characteriseOffThread } from "../measurement-pool";
 
 /** Share of the progress bar given to reading the file; the rest is the characterisation. */
 const READ_SHARE = 0.3;
@@ -21,7 +22,7 @@ export async function characteriseUpload(ctx: WorkerContext, { uploadId }: Paylo
     lastWrite = Date.now();
     await setUploadProgress(ctx.db, uploadId, fraction);
   };
-  let outcome: { ok: true; value: ReturnType<typeof characterise> } | { ok: false; message: string };
+  let outcome: { ok: true; value: Characterisation } | { ok: false; message: string };
   try {
     const object = await postgresObjectStore(ctx.db).getObject(upload.workspaceId, upload.objectKey);
     if (!object) throw new MeasurementInputError("empty-file", "the stored file is missing; upload it again");
@@ -31,8 +32,8 @@ export async function characteriseUpload(ctx: WorkerContext, { uploadId }: Paylo
     });
     await Promise.all(pending);
     await setUploadProgress(ctx.db, uploadId, READ_SHARE);
-    // Synchronous: the stages it reports are recorded once it returns (the bar then jumps to done).
-    outcome = { ok: true, value: characterise(data) };
+    // In a thread: a large file takes seconds, which must not stall this process's queue polling and chunks.
+    outcome = { ok: true, value: await characteriseOffThread(data) };
   } catch (error) {
     // The file was checked when it was uploaded, so a refusal here is a changed rule or a lost object: permanent.
     if (error instanceof MeasurementInputError) outcome = { ok: false, message: error.message };
