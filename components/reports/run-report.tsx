@@ -1,7 +1,8 @@
 // The printable report of one run: scenario in words, verdict, the simulated figures beside every reference, method
 // notes, charts, warnings, cautions and the review. Rendered on the server from the run as the API shows it.
 import { Callout, Card, CardBody } from "@/components/ui";
-import { ConvergenceChart, OccupancyChart, ReplicationChart } from "@/components/runs/run-charts";
+import { ConvergenceChart, OccupancyChart, ReplicationChart, SegmentChart } from "@/components/runs/run-charts";
+import { SegmentTable } from "@/components/runs/segment-table";
 import { ResultTable } from "@/components/runs/result-table";
 import { VerdictBadge } from "@/components/runs/verdict";
 import type { ReviewEntry } from "@/components/review/review-panel";
@@ -92,6 +93,18 @@ function RunResultReport({ result, partial, servers, target, safety }: { result:
           <ResultTable result={result} />
         </div>
       </ReportSection>
+      {result.segments?.length ? (
+        <ReportSection
+          title="Blocking per profile segment"
+          description={`Call congestion in each segment of the load cycle with its ${formatPercent(result.confidence)} confidence interval, beside the per-segment analytic values.`}
+          testId="report-segments"
+        >
+          <div className="break-inside-avoid">
+            <SegmentChart result={result} />
+          </div>
+          <SegmentTable result={result} />
+        </ReportSection>
+      ) : null}
     </>
   );
 }

@@ -5,19 +5,18 @@ import { formatPercent } from "@/lib/client/format";
 import { erlangBTraffic } from "@/lib/client/verdict";
 import { erlangBStateDistribution } from "@/lib/teletraffic";
 import type { SimulationResult } from "@/lib/simulation";
+import { chartedReferences, referenceColour, segmentChartData } from "./segment-chart-data";
 
 const referenceLines = (result: SimulationResult, xs: [number, number]) =>
-  result.references
-    .filter((r) => typeof r.callCongestion === "number")
-    .map((r, i) => ({
-      type: "scatter" as const,
-      mode: "lines" as const,
-      name: r.method,
-      x: xs,
-      y: [r.callCongestion!, r.callCongestion!],
-      line: { color: chartColours.references[i % chartColours.references.length], dash: i === 0 ? ("dash" as const) : ("dot" as const), width: 2 },
-      hovertemplate: `${r.method}: %{y:.3%}<extra></extra>`,
-    }));
+  chartedReferences(result).map((r, i) => ({
+    type: "scatter" as const,
+    mode: "lines" as const,
+    name: r.method,
+    x: xs,
+    y: [r.callCongestion!, r.callCongestion!],
+    line: { color: referenceColour(i), dash: i === 0 ? ("dash" as const) : ("dot" as const), width: 2 },
+    hovertemplate: `${r.method}: %{y:.3%}<extra></extra>`,
+  }));
 
 /** Each replication's call congestion with the run's interval as a band and the references as lines. */
 export function ReplicationChart({ result }: { result: SimulationResult }) {
@@ -103,4 +102,11 @@ export function OccupancyChart({ result, servers }: { result: SimulationResult; 
       ]}
     />
   );
+}
+
+/** A time-varying run's call congestion per profile segment with its interval, the per-segment references and the offered traffic. */
+export function SegmentChart({ result }: { result: SimulationResult }) {
+  const chart = segmentChartData(result);
+  if (!chart) return null;
+  return <Plot testId="chart-segments" title="Call congestion through the load cycle" summary={chart.summary} height={380} layout={chart.layout} data={chart.data} />;
 }

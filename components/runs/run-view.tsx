@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useState, type ReactNode } from "react";
-import { Button, Callout, Card, CardBody, CardHeader, CardTitle, ConfirmDialog, LinkButton, PageHeader, Stat, StatGroup, toast } from "@/components/ui";
+import { Button, Callout, Card, CardBody, CardDescription, CardHeader, CardTitle, ConfirmDialog, PageHeader, Stat, StatGroup, toast } from "@/components/ui";
 import { ErrorBlock, LoadingBlock } from "@/components/lab/states";
 import { SafetyNote } from "@/components/lab/safety-note";
 import { stopReasons } from "@/components/reports/run-notes";
@@ -14,11 +14,12 @@ import { sizesSafetyCapacity } from "@/lib/client/safety";
 import { erlangBTraffic, verdictFor } from "@/lib/client/verdict";
 import type { RunResponse } from "@/lib/jobs/api-types";
 import type { SimulationResult } from "@/lib/simulation";
-import { ConvergenceChart, OccupancyChart, ReplicationChart } from "./run-charts";
+import { ConvergenceChart, OccupancyChart, ReplicationChart, SegmentChart } from "./run-charts";
 import { ResultTable } from "./result-table";
 import { runLabel } from "./run-table";
+import { SegmentTable } from "./segment-table";
 import { JobStatusBadge, ProgressBar, ReviewBadge } from "./status";
-import { TargetControl, useTarget } from "./target-control";
+import { ReportLinkButton, TargetControl, useTarget } from "./target-control";
 import { VerdictBadge } from "./verdict";
 
 export interface RunViewProps {
@@ -69,9 +70,7 @@ export function RunView({ workspace, runId, canCancel, safetyCritical, review }:
         actions={
           run.result ? (
             <>
-              <LinkButton variant="secondary" href={`/w/${workspace}/runs/${run.id}/report`}>
-                Printable report
-              </LinkButton>
+              <ReportLinkButton href={`/w/${workspace}/runs/${run.id}/report`} />
               <a className="text-sm text-basin-800 underline" href={`/api/v1/workspaces/${workspace}/runs/${run.id}/export.csv`} download>
                 CSV
               </a>
@@ -185,6 +184,18 @@ function RunResult({ run, result, servers, safety }: { run: RunResponse; result:
           <ResultTable result={result} />
         </CardBody>
       </Card>
+      {result.segments?.length ? (
+        <Card>
+          <CardHeader>
+            <CardTitle as="h2">Blocking through the load cycle</CardTitle>
+            <CardDescription>Each profile segment on its own: the cycle average above can hide a busy stretch.</CardDescription>
+          </CardHeader>
+          <CardBody className="flex flex-col gap-4">
+            <SegmentChart result={result} />
+            <SegmentTable result={result} />
+          </CardBody>
+        </Card>
+      ) : null}
       <div className="grid gap-6 lg:grid-cols-2">
         <Card>
           <CardBody>

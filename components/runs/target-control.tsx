@@ -2,12 +2,30 @@
 
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
-import { Field, Input } from "@/components/ui";
+import { Field, Input, LinkButton } from "@/components/ui";
 import { DEFAULT_TARGET_GOS, parseTarget } from "@/lib/client/verdict";
 
 /** The target grade of service (blocking) the verdict judges against; kept in the address as ?gos=0.01. */
 export function useTarget(): number {
   return parseTarget(useSearchParams().get("gos"));
+}
+
+/**
+ * A report address carrying the page's target, so the report judges against the same grade of service. The default
+ * stays out of the address, as TargetControl keeps it (the report reads a missing ?gos= as the default).
+ */
+export function withTarget(href: string, target: number): string {
+  return target === DEFAULT_TARGET_GOS ? href : `${href}${href.includes("?") ? "&" : "?"}gos=${encodeURIComponent(String(target))}`;
+}
+
+/** The "Printable report" button of the run and sweep pages, with the target read from the page's address. */
+export function ReportLinkButton({ href }: { href: string }) {
+  const target = useTarget();
+  return (
+    <LinkButton variant="secondary" href={withTarget(href, target)}>
+      Printable report
+    </LinkButton>
+  );
 }
 
 export function TargetControl() {

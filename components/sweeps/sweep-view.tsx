@@ -4,10 +4,11 @@
 // dimensioning answer, every point's run, the caution where the sizing protects people, and the review.
 import Link from "next/link";
 import { useState, type ReactNode } from "react";
-import { Button, Callout, Card, CardBody, CardDescription, CardHeader, CardTitle, ConfirmDialog, LinkButton, PageHeader, Table, TBody, TD, TH, THead, TR, toast } from "@/components/ui";
+import { Button, Callout, Card, CardBody, CardDescription, CardHeader, CardTitle, ConfirmDialog, PageHeader, Table, TBody, TD, TH, THead, TR, toast } from "@/components/ui";
 import { ErrorBlock, LoadingBlock } from "@/components/lab/states";
 import { SafetyNote } from "@/components/lab/safety-note";
 import { JobStatusBadge, ProgressBar, ReviewBadge } from "@/components/runs/status";
+import { ReportLinkButton } from "@/components/runs/target-control";
 import { errorMessage } from "@/lib/client/api";
 import { formatDateTime, formatDuration, formatNumber, formatPercent } from "@/lib/client/format";
 import { isLive } from "@/lib/client/queries/keys";
@@ -84,9 +85,7 @@ export function SweepView({ workspace, sweepId, canCancel, safetyCritical, revie
         actions={
           finished ? (
             <>
-              <LinkButton variant="secondary" href={`/w/${workspace}/sweeps/${sweep.id}/report`}>
-                Printable report
-              </LinkButton>
+              <ReportLinkButton href={`/w/${workspace}/sweeps/${sweep.id}/report`} />
               <ExportLinks workspace={workspace} subject="sweeps" id={sweep.id} />
             </>
           ) : undefined

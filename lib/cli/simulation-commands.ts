@@ -96,6 +96,51 @@ function fmt(value: number | undefined): string {
   return value === undefined ? "" : formatNumber(Number(value.toPrecision(6)));
 }
 
+type CliInterval = { estimate: number; ciLow: number; ciHigh: number; upperBoundOnly?: boolean };
+
+const ciText = (m: CliInterval) => (m.upperBoundOnly ? `< ${fmt(m.ciHigh)} (one-sided)` : `${fmt(m.ciLow)} .. ${fmt(m.ciHigh)}`);
+
+/** Rows of cells as aligned text under a dashed rule: the first column left-aligned, the rest right-aligned. */
+function alignColumns(rows: string[][]): string[] {
+  const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
+  const lines = rows.map((r) => r.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join("  "));
+  lines.splice(1, 0, widths.map((w) => "-".repeat(w)).join("  "));
+  return lines;
+}
+
+const SEGMENT_REFERENCES: Array<["exact" | "psa" | "mol", string]> = [
+  ["exact", "exact"],
+  ["psa", "PSA"],
+  ["mol", "MOL"],
+];
+
+/**
+ * A time-varying run per profile segment: call congestion with its interval, time congestion, loss where retrials
+ * or waiting give one, and the per-segment references (exact periodic solution, PSA, MOL) where computed.
+ */
+export function segmentTable(result: SimulationResult): string[] {
+  const segments = result.segments;
+  if (!segments?.length) return [];
+  const pct = `${Math.round(result.confidence * 1000) / 10}% CI`;
+  const refs = SEGMENT_REFERENCES.filter(([key]) => segments.some((g) => g[key] !== undefined));
+  const loss = segments.some((g) => g.lossProbability);
+  const rows: string[][] = [["time in cycle", "offered (E)", "calls", "call congestion", pct, "time congestion", ...(loss ? ["loss", `loss ${pct}`] : []), ...refs.map(([, label]) => label)]];
+  for (const g of segments) {
+    const cc = g.callCongestion;
+    rows.push([
+      `${fmt(g.start)} .. ${fmt(g.end)}`,
+      fmt(g.offeredTraffic),
+      String(g.calls),
+      cc ? fmt(cc.estimate) : "-",
+      cc ? ciText(cc) : "no calls",
+      fmt(g.timeCongestion.estimate),
+      ...(loss ? [g.lossProbability ? fmt(g.lossProbability.estimate) : "-", g.lossProbability ? ciText(g.lossProbability) : ""] : []),
+      ...refs.map(([key]) => fmt(g[key])),
+    ]);
+  }
+  return ["", "Per profile segment (call congestion = refused first attempts / calls offered in the segment):", ...alignColumns(rows)];
+}
+
 /** Estimates with their intervals, one column per analytic reference. */
 export function simulationTable(result: SimulationResult): string {
   const refs = result.references;
@@ -103,25 +148,24 @@ export function simulationTable(result: SimulationResult): string {
   const header = ["measure", "estimate", pct, ...refs.map((r, i) => `[${i + 1}]${r.exact ? "*" : ""}`)];
   const rows: string[][] = [header];
   for (const [key, label] of MEASURES) {
-    const m = result[key] as { estimate: number; ciLow: number; ciHigh: number; upperBoundOnly?: boolean } | undefined;
+    const m = result[key] as CliInterval | undefined;
     if (!m) continue;
     const field = REFERENCE_FIELD[key];
     rows.push([
       label,
       fmt(m.estimate),
-      m.upperBoundOnly ? `< ${fmt(m.ciHigh)} (one-sided)` : `${fmt(m.ciLow)} .. ${fmt(m.ciHigh)}`,
+      ciText(m),
       ...refs.map((r) => (field ? fmt((r as Record<string, unknown>)[field] as number | undefined) : "")),
     ]);
   }
-  const widths = header.map((_, c) => Math.max(...rows.map((r) => r[c].length)));
-  const lines = rows.map((r) => r.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join("  "));
-  lines.splice(1, 0, widths.map((w) => "-".repeat(w)).join("  "));
+  const lines = alignColumns(rows);
   return [
     `Simulation: ${result.replications} replications, ${result.calls} calls, ${result.events} events, seed ${result.seed}, offered ${fmt(result.offeredTraffic)} E`,
     `Warm-up per replication: ${fmt(result.warmupCalls.mean)} calls (${result.warmupCalls.min} .. ${result.warmupCalls.max}), ${fmt(result.warmupTime.mean)} time units`,
     "",
     ...lines,
     ...(result.callCongestion.method ? [`Call congestion by ${result.callCongestion.method}.`] : []),
+    ...segmentTable(result),
     "",
     ...(result.warnings.length ? ["Warnings:", ...result.warnings.map((w) => `  ! ${w.measure ? `${w.measure}: ` : ""}${w.message}`), ""] : []),
     "References (* = every assumption met, the interval should cover it):",

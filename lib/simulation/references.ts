@@ -198,6 +198,44 @@ const periodicRule: ReferenceRule = {
   },
 };
 
+/** The exact periodic solution with waiting positions (and exponential patience): the same forward equations on N + Q + 1 states. */
+const periodicQueueRule: ReferenceRule = {
+  method: "M(t)/M/N/N+Q periodic exact solution",
+  limits: `interactive up to about ${tt.INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 1) × uniformisation terms over the cycles needed); at most ${tt.MAX_PERIODIC_WORK}`,
+  interactiveWork: tt.INTERACTIVE_PERIODIC_QUEUE_WORK,
+  work: (s, f) =>
+    s.arrivals.process === "time-varying" ? tt.periodicQueueWork(f.n, s.waitingPositions, s.arrivals.profile, f.h, s.patience ? tt.lawMean(s.patience) : undefined) : 0,
+  applies: (s, f) =>
+    s.arrivals.process === "time-varying" && f.waiting && !f.retrying && f.exponentialHolding && exponentialOrUndefined(s.patience)
+      ? {
+          exact: true,
+          assumptions: `Poisson arrivals at the profile's piecewise-constant periodic rate, exponential holding, FIFO waiting with Q positions${s.patience ? ", exponential patience" : ", no abandonment"}, no retrials; the periodic steady state of the forward equations (errors below the stated bound)`,
+        }
+      : undefined,
+  compute(s, f) {
+    if (s.arrivals.process !== "time-varying") throw new Error("not a time-varying profile");
+    const r = tt.periodicQueueSystem({
+      servers: f.n,
+      waitingPositions: s.waitingPositions,
+      profile: s.arrivals.profile,
+      meanHolding: f.h,
+      meanPatience: s.patience ? tt.lawMean(s.patience) : undefined,
+    });
+    return {
+      callCongestion: r.callCongestion,
+      timeCongestion: r.timeCongestion,
+      carriedTraffic: r.carriedTraffic,
+      lossProbability: r.lossProbability,
+      waitingProbability: r.waitingProbability,
+      meanWait: r.meanWait,
+      meanWaiting: r.meanQueueLength,
+      abandonmentProbability: r.abandonmentProbability,
+      truncationBound: r.errorBound,
+      segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, callCongestion: g.callCongestion, timeCongestion: g.timeCongestion })),
+    };
+  },
+};
+
 /** Every reference the lab can set beside a run, in the order they are shown. */
 export const referenceRules: ReferenceRule[] = [
   {
@@ -394,6 +432,7 @@ export const referenceRules: ReferenceRule[] = [
     },
   },
   periodicRule,
+  periodicQueueRule,
   timeVaryingRule("pointwise stationary approximation"),
   timeVaryingRule("modified offered load approximation"),
 ];
@@ -446,9 +485,9 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
       "retrials under a time-varying load: the periodic forward equations of the two-dimensional chain (busy servers, calls retrying), truncated in the orbit, would give it; not implemented",
   },
   {
-    when: (s, f) => s.arrivals.process === "time-varying" && f.waiting,
+    when: (s, f) => s.arrivals.process === "time-varying" && f.waiting && !f.retrying && s.patience === undefined,
     reason:
-      "waiting positions under a time-varying load: the periodic forward equations of the birth–death chain on N + Q + 1 states (exponential patience) would give it; not implemented",
+      "waiting positions without patience under a time-varying load that keeps the waiting room overloaded for most of the cycle: the periodic solution exists, but the cycle map has no contraction the method can bound, so no value with a stated error is given (give callers a patience, or fewer waiting positions)",
   },
 ];
 

@@ -26,6 +26,7 @@
  *   patienceQueue / engsetQueue / retrialServers / erlangCServers / engsetServers / mmppQueueSystem
  *   streamPeakedness({ stream, meanHolding?, servers? }), timeVaryingLoss({ servers, profile, meanHolding? })
  *   periodicLossSystem({ servers, profile, meanHolding?, tolerance? }): PeriodicLossResult   // exact M(t)/M/N/N
+ *   periodicQueueSystem({ servers, waitingPositions, profile, meanHolding?, meanPatience?, tolerance? }): PeriodicQueueResult   // exact M(t)/M/N/N+Q(+M)
  *   overflowLossSystem({ primaries: [{ traffic, servers }], servers }): OverflowLossResult
  *   kaufmanRoberts({ capacity, classes: [{ traffic, bandwidth }] }): KaufmanRobertsResult
  *   analyticOperations[name].evaluate(input): Record<string, unknown>
@@ -182,11 +183,18 @@ export {
   periodicLossInputSchema,
   periodicLossSystem,
   periodicLossWork,
+  periodicQueueInputSchema,
+  periodicQueueSystem,
+  periodicQueueWork,
   INTERACTIVE_PERIODIC_WORK,
+  INTERACTIVE_PERIODIC_QUEUE_WORK,
   MAX_PERIODIC_WORK,
   type PeriodicLossInput,
   type PeriodicLossResult,
   type PeriodicLossSegment,
+  type PeriodicQueueInput,
+  type PeriodicQueueResult,
+  type PeriodicQueueSegment,
 } from "./periodic-loss";
 export {
   overflowLossInputSchema,

@@ -36,7 +36,15 @@ import {
 } from "./markov-systems";
 import { peakednessInputSchema, streamPeakedness } from "./peakedness";
 import { INTERACTIVE_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
-import { INTERACTIVE_PERIODIC_WORK, MAX_PERIODIC_WORK, periodicLossInputSchema, periodicLossSystem } from "./periodic-loss";
+import {
+  INTERACTIVE_PERIODIC_QUEUE_WORK,
+  INTERACTIVE_PERIODIC_WORK,
+  MAX_PERIODIC_WORK,
+  periodicLossInputSchema,
+  periodicLossSystem,
+  periodicQueueInputSchema,
+  periodicQueueSystem,
+} from "./periodic-loss";
 import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
 import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
@@ -136,6 +144,12 @@ export const analyticOperations = {
     periodicLossInputSchema,
     periodicLossSystem,
     `interactive up to about ${INTERACTIVE_PERIODIC_WORK} state updates ((N + 1) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
+  ),
+  "periodic-queue": operation(
+    "time-varying load with waiting positions (and optional exponential patience): exact periodic loss, waiting, mean wait and abandonment (forward equations, stated error bound)",
+    periodicQueueInputSchema,
+    periodicQueueSystem,
+    `interactive up to about ${INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 1) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
   ),
   "overflow-loss": operation("exact overflow network beside equivalent random and Hayward", overflowLossInputSchema, overflowLossSystem),
   "multi-rate": operation("multi-rate loss link, Kaufman–Roberts recursion: per-class blocking", kaufmanRobertsInputSchema, kaufmanRoberts),

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { assertFiniteResult, parseInput, TeletrafficConvergenceError } from "./errors";
-import { erlangBStateDistribution, MAX_TRAFFIC } from "./erlang-b";
+import { MAX_TRAFFIC } from "./erlang-b";
 import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, timeVaryingHoldingField, timeVaryingServersField } from "./time-varying";
 
 /**
@@ -27,6 +27,10 @@ import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, time
  * Within a segment the rate is constant, so arrivals see the time average there (PASTA): a
  * segment's call congestion equals its time congestion; over the cycle, call congestion weights
  * the segments by their offered calls λ_s d_s, time congestion by their durations.
+ *
+ * The same machinery solves the chain with Q waiting positions (periodicQueueSystem: states
+ * 0..N + Q, departures min(k, N) μ + (k − N)⁺ α); there the contraction is measured in a weighted
+ * distance (see contractionFor), which reduces to the W1 argument above when Q = 0.
  */
 
 /** Λτ per uniformisation step: large enough that the Poisson spread costs little (about 2.1 × Λτ terms per step). */
@@ -37,18 +41,22 @@ const STEP_TAIL = 1e-25;
 /** Work units (state updates, i.e. (N + 1) × uniformisation terms) answered interactively, about 100 ms. */
 export const INTERACTIVE_PERIODIC_WORK = 30_000_000;
 export const MAX_PERIODIC_WORK = 3_000_000_000;
+/** The same for the chain with waiting positions (a third more work per state update: the occupation vector is kept). */
+export const INTERACTIVE_PERIODIC_QUEUE_WORK = 12_000_000;
+
+const toleranceField = z
+  .number()
+  .min(1e-14)
+  .max(1e-3)
+  .default(1e-12)
+  .describe("bound on the absolute error of every blocking value, default 1e-12; where rounding stops the iteration first, errorBound says how close it got");
 
 export const periodicLossInputSchema = z
   .object({
     servers: timeVaryingServersField,
     profile: profileField,
     meanHolding: timeVaryingHoldingField,
-    tolerance: z
-      .number()
-      .min(1e-14)
-      .max(1e-3)
-      .default(1e-12)
-      .describe("bound on the absolute error of every blocking value, default 1e-12; where rounding stops the iteration first, errorBound says how close it got"),
+    tolerance: toleranceField,
   })
   .superRefine((v, ctx) => {
     refineProfileHasTraffic(v.profile, ctx);
@@ -90,58 +98,176 @@ export interface PeriodicLossResult {
   steps: number;
 }
 
-/** Cycles the contraction needs from the worst start (W1 <= N) to reach the tolerance, plus two. */
-function cyclesNeeded(servers: number, tol: number, cycleInHoldings: number, oneMinusC: number): number {
-  return 2 + Math.ceil(Math.log(Math.max(1, servers) / (tol * oneMinusC)) / cycleInHoldings);
+/**
+ * The birth–death chain shared by the loss system and the system with waiting positions: calls in
+ * the system k = 0..K (K = N + Q), birth λ(t) below K, death d(k) = min(k, N) μ + (k − N)⁺ α.
+ */
+interface BirthDeath {
+  servers: number;
+  capacity: number;
+  mu: number;
+  alpha: number;
+}
+
+const deathOf = (m: BirthDeath, k: number) => Math.min(k, m.servers) * m.mu + Math.max(0, k - m.servers) * m.alpha;
+/** d(K) − d(k), formed without cancellation (the uniformised chain's holding weight below K). */
+const deathGapOf = (m: BirthDeath, k: number) => (m.servers - Math.min(k, m.servers)) * m.mu + (m.capacity - m.servers - Math.max(0, k - m.servers)) * m.alpha;
+
+/**
+ * Contraction of the cycle map in a weighted Wasserstein distance d_u(p, q) = Σ_l u_l |F_p(l) − F_q(l)|
+ * (u_l: the distance between l and l + 1). For the monotone coupling of two copies of a birth–death
+ * chain, d_u shrinks at rate at least κ = min_l [b(l) u_l − d(l) u_{l−1} − b(l+1) u_{l+1} + d(l+1) u_l] / u_l
+ * (Chen 1996, "Estimation of spectral gap for Markov chains", Acta Math. Sinica 12). With u ≡ 1 and
+ * no waiting room this is μ (the loss system's e^{−T/h} per cycle); with patience α > 0 it is at
+ * least min(μ, α). Without patience the queue region contracts only under weights geometric in the
+ * queue (ratio q: an M/M/1-like region, κ = λ(1 − q) + Nμ(1 − 1/q) there), which may be negative in
+ * overloaded segments: the cycle then contracts by e^{−Σ κ_s d_s} if that sum is positive, and values
+ * inside the cycle may grow by the largest e^{−partial sum} (`growth`).
+ */
+interface Contraction {
+  weights: Float64Array;
+  /** κ per segment (may be negative), Σ κ_s d_s, and the largest growth factor within a cycle. */
+  kappa: number[];
+  exponent: number;
+  growth: number;
+  minU: number;
+  sumU: number;
+}
+
+function contractionFor(m: BirthDeath, profile: ReadonlyArray<{ duration: number; rate: number }>, q: number): Contraction {
+  const n = m.servers;
+  const k = m.capacity;
+  const u = (l: number) => q ** Math.max(0, l - n + 1);
+  // κ_l is constant on 1..N−2 and on N..K−2: boundary indices and a few inside each stretch suffice.
+  const candidates = new Set<number>();
+  for (const c of [0, 1, 2, n - 3, n - 2, n - 1, n, n + 1, k - 3, k - 2, k - 1]) if (c >= 0 && c <= k - 1) candidates.add(c);
+  const kappa = profile.map(({ rate }) => {
+    const b = (l: number) => (l < k ? rate : 0);
+    let worst = Infinity;
+    for (const l of candidates) {
+      const ul = u(l);
+      const value = b(l) - (l > 0 ? (deathOf(m, l) * u(l - 1)) / ul : 0) - (l + 1 < k ? (b(l + 1) * u(l + 1)) / ul : 0) + deathOf(m, l + 1);
+      worst = Math.min(worst, value);
+    }
+    return worst;
+  });
+  let exponent = 0;
+  let growth = 1;
+  profile.forEach((s, i) => {
+    exponent += kappa[i] * s.duration;
+    growth = Math.max(growth, Math.exp(-exponent));
+  });
+  const weights = new Float64Array(k);
+  let minU = Infinity;
+  let sumU = 0;
+  for (let l = 0; l < k; l++) {
+    weights[l] = u(l);
+    minU = Math.min(minU, weights[l]);
+    sumU += weights[l];
+  }
+  return { weights, kappa, exponent, growth, minU, sumU };
+}
+
+/** Cycles the contraction needs from the worst start (d_u <= Σ u) to reach the tolerance, plus two. */
+function cyclesNeeded(c: Contraction, tol: number): number {
+  const oneMinusC = -Math.expm1(-c.exponent);
+  return 2 + Math.ceil(Math.log(Math.max(1, (c.sumU * c.growth) / (c.minU * tol * oneMinusC))) / c.exponent);
 }
 
 /**
- * W1 distance to a segment's equilibrium below which the rest of the segment is taken as settled:
- * a share of the tolerance, but not below the rounding noise of W1 over N + 1 states.
+ * The weights to use: u ≡ 1 when it contracts (always without a waiting room or with patience);
+ * otherwise the geometric queue weights with the fewest cycles needed. Undefined when no candidate
+ * contracts over a cycle (then no error bound can be stated).
  */
-function settleGap(servers: number, tolerance: number, segments: number): number {
-  return Math.max(tolerance / (10 * segments), 100 * (servers + 1) * Number.EPSILON);
+function chooseContraction(m: BirthDeath, profile: ReadonlyArray<{ duration: number; rate: number }>, tol: number): Contraction | undefined {
+  const flat = contractionFor(m, profile, 1);
+  if (flat.exponent > 0 && flat.kappa.every((x) => x > 0)) return flat;
+  const ratios = new Set<number>([1]);
+  for (let i = -24; i <= 24; i++) ratios.add(2 ** (i / 12));
+  for (const s of profile) if (s.rate > 0) ratios.add(Math.min(8, Math.max(1 / 8, Math.sqrt((m.servers * m.mu) / s.rate))));
+  let best: Contraction | undefined;
+  let bestCycles = Infinity;
+  for (const q of ratios) {
+    // Weights spanning more than 1e100 would make the bound meaningless before it helps.
+    if (Math.abs(Math.log10(q) * (m.capacity - m.servers)) > 100) continue;
+    const c = contractionFor(m, profile, q);
+    if (!(c.exponent > 0)) continue;
+    const cycles = cyclesNeeded(c, tol);
+    if (cycles < bestCycles) {
+      best = c;
+      bestCycles = cycles;
+    }
+  }
+  return best;
 }
 
-/** Time after which any start is within W1 δ of a segment's equilibrium (the contraction from W1 <= N). */
-function settleTime(servers: number, meanHolding: number, delta: number): number {
-  return meanHolding * Math.log(Math.max(1, servers) / delta);
+/**
+ * d_u distance to a segment's equilibrium below which the rest of the segment is taken as settled:
+ * a share of the tolerance, but not below the rounding noise of d_u over K + 1 states.
+ */
+function settleGap(c: Contraction, capacity: number, tolerance: number, segments: number): number {
+  return Math.max((tolerance * c.minU) / (10 * segments * c.growth), 100 * (capacity + 1) * Number.EPSILON * c.minU);
 }
 
-/** Estimated state updates: (N + 1) × uniformisation terms over the cycles the contraction needs from the worst start. */
-export function periodicLossWork(servers: number, profile: ReadonlyArray<{ duration: number; rate: number }>, meanHolding: number, tolerance = 1e-12): number {
-  const cycle = profile.reduce((s, p) => s + p.duration, 0);
-  const oneMinusC = -Math.expm1(-cycle / meanHolding);
-  const settle = settleTime(servers, meanHolding, settleGap(servers, tolerance, profile.length));
+/** Estimated state updates: (K + 1) × uniformisation terms over the cycles the contraction needs from the worst start. */
+function birthDeathWork(m: BirthDeath, profile: ReadonlyArray<{ duration: number; rate: number }>, tolerance: number): number {
+  const c = chooseContraction(m, profile, tolerance);
+  if (!c) return Infinity;
+  const delta = settleGap(c, m.capacity, tolerance, profile.length);
   let terms = 0;
-  for (const s of profile) {
-    const big = s.rate + servers / meanHolding;
+  profile.forEach((s, i) => {
+    const big = s.rate + deathOf(m, m.capacity);
+    const settle = c.kappa[i] > 0 ? Math.log(Math.max(1, c.sumU) / delta) / c.kappa[i] : Infinity;
     const theta = big * Math.min(s.duration, settle);
     const steps = Math.max(1, Math.ceil(theta / STEP_MEAN));
     // Terms per step: the Poisson(θ) weights down to STEP_TAIL, about θ + 11 √θ + 10.
     const perStep = theta / steps;
     terms += steps * (perStep + 11 * Math.sqrt(perStep) + 10);
-  }
-  return (servers + 1) * terms * cyclesNeeded(servers, tolerance, cycle / meanHolding, oneMinusC);
+  });
+  // With a waiting room the iteration usually ends on its rounding floor, which the stall test
+  // needs a window of cycles to see (the loss chain reproduces its fixed point exactly).
+  const cycles = m.capacity > m.servers ? Math.max(cyclesNeeded(c, tolerance), stallWindow(c) + 2) : cyclesNeeded(c, tolerance);
+  return (m.capacity + 1) * terms * cycles;
 }
 
-/** Wasserstein-1 distance between two laws on 0..N: Σ_k |F_p(k) − F_q(k)|. */
-function w1(p: Float64Array, q: Float64Array): number {
+/** Cycles over which the exact map shrinks the step at least by half. */
+const stallWindow = (c: Contraction) => Math.ceil(Math.LN2 / c.exponent) + 1;
+
+/** Estimated state updates of periodicLossSystem. */
+export function periodicLossWork(servers: number, profile: ReadonlyArray<{ duration: number; rate: number }>, meanHolding: number, tolerance = 1e-12): number {
+  return birthDeathWork({ servers, capacity: servers, mu: 1 / meanHolding, alpha: 0 }, profile, tolerance);
+}
+
+/** d_u(p, q) = Σ_l u_l |F_p(l) − F_q(l)|. */
+function distance(p: Float64Array, q: Float64Array, u: Float64Array): number {
   let fp = 0;
   let fq = 0;
   let sum = 0;
   for (let k = 0; k < p.length - 1; k++) {
     fp += p[k];
     fq += q[k];
-    sum += Math.abs(fp - fq);
+    sum += u[k] * Math.abs(fp - fq);
   }
   return sum;
 }
 
-function mean(p: Float64Array): number {
-  let m = 0;
-  for (let k = 1; k < p.length; k++) m += k * p[k];
-  return m;
+/** Stationary law of the chain at a constant birth rate (product form, in logs relative to the largest term). */
+function birthDeathStationary(m: BirthDeath, rate: number): Float64Array {
+  const p = new Float64Array(m.capacity + 1);
+  if (rate === 0) {
+    p[0] = 1;
+    return p;
+  }
+  const logs = new Float64Array(m.capacity + 1);
+  let top = 0;
+  for (let k = 1; k <= m.capacity; k++) {
+    logs[k] = logs[k - 1] + Math.log(rate / deathOf(m, k));
+    top = Math.max(top, logs[k]);
+  }
+  let sum = 0;
+  for (let k = 0; k <= m.capacity; k++) sum += p[k] = Math.exp(logs[k] - top);
+  for (let k = 0; k <= m.capacity; k++) p[k] /= sum;
+  return p;
 }
 
 interface SegmentPlan {
@@ -158,12 +284,12 @@ interface SegmentPlan {
   tailOverBig: Float64Array;
   massLeft: number;
   integralLeft: number;
-  /** Erlang's law at λ h, for early settling (undefined for segments shorter than h or above the distribution's traffic limit). */
+  /** The segment's equilibrium law, for early settling (undefined for segments shorter than h or without contraction). */
   equilibrium?: Float64Array;
 }
 
-function planSegment(start: number, duration: number, rate: number, n: number, mu: number, h: number): SegmentPlan {
-  const big = rate + n * mu;
+function planSegment(m: BirthDeath, start: number, duration: number, rate: number, kappa: number, h: number): SegmentPlan {
+  const big = rate + deathOf(m, m.capacity);
   const steps = Math.max(1, Math.ceil((big * duration) / STEP_MEAN));
   const tau = duration / steps;
   const theta = big * tau;
@@ -204,8 +330,8 @@ function planSegment(start: number, duration: number, rate: number, n: number, m
     tailOverBig,
     massLeft: leftBound,
     integralLeft,
-    // Only segments of a holding time or more can settle; shorter ones keep no (N + 1)-vector.
-    equilibrium: duration >= h && rate * h <= MAX_TRAFFIC ? Float64Array.from(erlangBStateDistribution(n, rate * h)) : undefined,
+    // Only segments of a holding time or more can settle; shorter ones keep no (K + 1)-vector.
+    equilibrium: duration >= h && kappa > 0 && rate * h <= MAX_TRAFFIC ? birthDeathStationary(m, rate) : undefined,
   };
 }
 
@@ -214,52 +340,72 @@ interface Work {
   v: Float64Array;
   u: Float64Array;
   out: Float64Array;
+  occupation: Float64Array;
   stay: Float64Array;
   down: Float64Array;
 }
 
+/** Time integrals over one segment of the quantities every measure is built from. */
+interface SegmentIntegrals {
+  /** ∫ P(k = K), ∫ P(k >= N), ∫ E[min(k, N)], ∫ E[(k − N)⁺]. */
+  full: number;
+  allBusy: number;
+  busy: number;
+  queue: number;
+  /** P(k = K) at the segment's start. */
+  fullAtStart: number;
+}
+
 interface CycleResult {
-  /** ∫ p_N over each segment, P(all busy) and the mean busy count at each segment start, and at the cycle end. */
-  blockedTime: Float64Array;
-  blockingAtStart: Float64Array;
-  meanAtStart: Float64Array;
-  meanAtEnd: number;
-  /** Bound on the W1 error of the cycle's end law and on ∫ p_N of each segment, from truncation and early settling. */
+  segments: SegmentIntegrals[];
+  /** Bound (d_u) on the error of the cycle's end law from truncation and early settling; bound (per unit of a probability or count) on each segment's integrals. */
   lawError: number;
   integralError: Float64Array;
   steps: number;
 }
 
+function integralsOf(occupation: Float64Array, n: number, fullAtStart: number): SegmentIntegrals {
+  const k = occupation.length - 1;
+  let allBusy = 0;
+  let busy = 0;
+  let queue = 0;
+  for (let j = 0; j <= k; j++) {
+    const x = occupation[j];
+    if (j >= n) allBusy += x;
+    busy += Math.min(j, n) * x;
+    queue += Math.max(0, j - n) * x;
+  }
+  return { full: occupation[k], allBusy, busy, queue, fullAtStart };
+}
+
 /** Advances p (in place) through one cycle. */
-function runCycle(p: Float64Array, plans: SegmentPlan[], n: number, mu: number, h: number, delta: number, work: Work): CycleResult {
-  const m = plans.length;
-  const blockedTime = new Float64Array(m);
-  const blockingAtStart = new Float64Array(m);
-  const meanAtStart = new Float64Array(m);
-  const integralError = new Float64Array(m);
+function runCycle(p: Float64Array, plans: SegmentPlan[], m: BirthDeath, c: Contraction, delta: number, work: Work): CycleResult {
+  const k = m.capacity;
+  const segments: SegmentIntegrals[] = [];
+  const integralError = new Float64Array(plans.length);
   let lawError = 0;
   let steps = 0;
-  const { stay, down } = work;
-  for (let s = 0; s < m; s++) {
+  const { stay, down, occupation } = work;
+  for (let s = 0; s < plans.length; s++) {
     const plan = plans[s];
-    blockingAtStart[s] = p[n];
-    meanAtStart[s] = mean(p);
+    const fullAtStart = p[k];
     const up = plan.rate / plan.big;
-    // Row j of P: up λ/Λ, down jμ/Λ, stay (Λ − λ − jμ)/Λ = (N − j)μ/Λ (λ/Λ at N), formed without cancellation.
-    for (let j = 0; j <= n; j++) {
-      down[j] = (j * mu) / plan.big;
-      stay[j] = j < n ? ((n - j) * mu) / plan.big : up;
+    // Row j of P: up λ/Λ, down d(j)/Λ, stay (d(K) − d(j))/Λ (λ/Λ at K), formed without cancellation.
+    for (let j = 0; j <= k; j++) {
+      down[j] = deathOf(m, j) / plan.big;
+      stay[j] = j < k ? deathGapOf(m, j) / plan.big : up;
     }
-    let integral = 0;
+    occupation.fill(0);
     const equilibrium = plan.equilibrium;
+    const kappa = c.kappa[s];
     for (let step = 0; step < plan.steps; step++) {
-      const gap = equilibrium ? w1(p, equilibrium) : Infinity;
+      const gap = equilibrium ? distance(p, equilibrium, c.weights) : Infinity;
       if (equilibrium && gap <= delta) {
-        // Settled: the rest of the segment is its equilibrium to within gap e^{−μ s} at time s later.
+        // Settled: the rest of the segment is its equilibrium to within gap e^{−κ s} at time s later.
         const rest = plan.duration - step * plan.tau;
-        integral += equilibrium[n] * rest;
-        integralError[s] += gap * h * -Math.expm1(-mu * rest);
-        lawError += gap * Math.exp(-mu * rest);
+        for (let j = 0; j <= k; j++) occupation[j] += equilibrium[j] * rest;
+        integralError[s] += ((gap / c.minU) * -Math.expm1(-kappa * rest)) / kappa;
+        lawError += gap * Math.exp(-kappa * rest);
         p.set(equilibrium);
         break;
       }
@@ -271,110 +417,273 @@ function runCycle(p: Float64Array, plans: SegmentPlan[], n: number, mu: number, 
       v.set(p);
       out.fill(0);
       const last = weights.length - 1;
-      for (let k = 0; k < last; k++) {
-        const wk = weights[k];
-        integral += tailOverBig[k] * v[n];
-        // out += w_k v and u = v P for the uniformised birth–death chain, in one pass (N >= 1).
-        out[0] += wk * v[0];
-        u[0] = v[0] * stay[0] + v[1] * down[1];
-        for (let j = 1; j < n; j++) {
-          const x = v[j];
-          out[j] += wk * x;
+      for (let t = 0; t < last; t++) {
+        const wt = weights[t];
+        const ct = tailOverBig[t];
+        // out += w_t v, occupation += P(X > t)/Λ v and u = v P for the uniformised chain, in one pass (K >= 1).
+        let x = v[0];
+        out[0] += wt * x;
+        occupation[0] += ct * x;
+        u[0] = x * stay[0] + v[1] * down[1];
+        for (let j = 1; j < k; j++) {
+          x = v[j];
+          out[j] += wt * x;
+          occupation[j] += ct * x;
           u[j] = v[j - 1] * up + x * stay[j] + v[j + 1] * down[j + 1];
         }
-        out[n] += wk * v[n];
-        u[n] = v[n - 1] * up + v[n] * stay[n];
-        const t = v;
+        x = v[k];
+        out[k] += wt * x;
+        occupation[k] += ct * x;
+        u[k] = v[k - 1] * up + x * stay[k];
+        const swap = v;
         v = u;
-        u = t;
+        u = swap;
       }
-      integral += tailOverBig[last] * v[n];
-      for (let j = 0; j <= n; j++) out[j] += weights[last] * v[j];
+      for (let j = 0; j <= k; j++) {
+        out[j] += weights[last] * v[j];
+        occupation[j] += tailOverBig[last] * v[j];
+      }
       p.set(out);
-      // A sub-probability short of mass ε is within W1 N ε of the law it approximates.
-      lawError += n * plan.massLeft;
-      integralError[s] += plan.integralLeft;
+      // A sub-probability short of mass ε is within d_u ε Σu of the law it approximates.
+      lawError += c.sumU * plan.massLeft;
+      integralError[s] += k * plan.integralLeft;
     }
-    blockedTime[s] = integral;
+    segments.push(integralsOf(occupation, m.servers, fullAtStart));
   }
-  return { blockedTime, blockingAtStart, meanAtStart, meanAtEnd: mean(p), lawError, integralError, steps };
+  return { segments, lawError, integralError, steps };
+}
+
+interface PeriodicSolution {
+  plans: SegmentPlan[];
+  segments: SegmentIntegrals[];
+  cycle: number;
+  errorBound: number;
+  cycles: number;
+  steps: number;
+  /** The d_u weights' queue ratio (1: plain W1) and the cycle's contraction exponent Σ κ_s d_s. */
+  weightRatio: number;
+  contraction: number;
+}
+
+/**
+ * The periodic steady state of the birth–death chain under a piecewise-constant periodic birth
+ * rate: fixed point of the cycle map Φ, iterated from the stationary law at the infinite-server
+ * load m(0), stopped when the contraction bound d_u(p, p*) <= (d_u(p, Φp) + η)/(1 − e^{−Σκd}) meets
+ * the tolerance. errorBound bounds every time-average probability and mean count computed from it.
+ */
+function solvePeriodicBirthDeath(m: BirthDeath, profile: ReadonlyArray<{ duration: number; rate: number }>, h: number, tolerance: number): PeriodicSolution {
+  const c = chooseContraction(m, profile, tolerance);
+  if (!c) throw new TeletrafficConvergenceError("no contraction bound over the cycle: the waiting room stays overloaded for most of the cycle (add patience, or fewer waiting positions)", 0);
+  const plans: SegmentPlan[] = [];
+  let cycle = 0;
+  profile.forEach((s, i) => {
+    plans.push(planSegment(m, cycle, s.duration, s.rate, c.kappa[i], h));
+    cycle += s.duration;
+  });
+  const oneMinusC = -Math.expm1(-c.exponent);
+  const delta = settleGap(c, m.capacity, tolerance, profile.length);
+  // The contraction guarantees convergence well within this; the cap only guards against rounding surprises.
+  const maxCycles = 10 * cyclesNeeded(c, tolerance) + 100;
+  // Cycles over which the exact map shrinks the step at least by half: a step that does not halve
+  // over that many cycles has reached the rounding noise, and iterating further is futile.
+  const window = stallWindow(c);
+  const history: number[] = [];
+  const size = m.capacity + 1;
+  const work: Work = { v: new Float64Array(size), u: new Float64Array(size), out: new Float64Array(size), occupation: new Float64Array(size), stay: new Float64Array(size), down: new Float64Array(size) };
+  // Start from the stationary law at the infinite-server load m(0) (for the loss system Erlang's law at the MOL start).
+  const p = birthDeathStationary(m, Math.min(periodicInfiniteServerLoad(profile, h), 1e7) / h);
+  const previous = new Float64Array(size);
+  let steps = 0;
+  for (let cycles = 1; ; cycles++) {
+    previous.set(p);
+    const r = runCycle(p, plans, m, c, delta, work);
+    steps += r.steps;
+    const step = distance(previous, p, c.weights);
+    const startError = (step + r.lawError) / oneMinusC;
+    // The start's error in plain W1 units, grown at most by `growth` along the cycle.
+    const startValueError = (c.growth * startError) / c.minU;
+    history.push(step);
+    const stalled = history.length > window && step > 0.5 * history[history.length - 1 - window];
+    if (startValueError > tolerance && !stalled && cycles < maxCycles) continue;
+    if (startValueError > tolerance && !stalled) throw new TeletrafficConvergenceError(`periodic solution not within ${tolerance} after ${cycles} cycles (bound ${startValueError})`, cycles);
+    let worst = 0;
+    plans.forEach((plan, s) => (worst = Math.max(worst, r.integralError[s] / plan.duration)));
+    // Every value along the cycle: the start's error plus the cycle's own numerical error, grown at most by `growth`.
+    return { plans, segments: r.segments, cycle, errorBound: (c.growth * (startError + r.lawError)) / c.minU + worst, cycles, steps, weightRatio: c.weights.length > 1 ? c.weights[c.weights.length - 1] / c.weights[c.weights.length - 2] : 1, contraction: c.exponent };
+  }
 }
 
 export function periodicLossSystem(input: PeriodicLossInput): PeriodicLossResult {
   const { servers: n, profile, meanHolding: h, tolerance } = parseInput(periodicLossInputSchema, input);
-  const mu = 1 / h;
-  const plans: SegmentPlan[] = [];
-  let cycle = 0;
-  for (const s of profile) {
-    plans.push(planSegment(cycle, s.duration, s.rate, n, mu, h));
-    cycle += s.duration;
-  }
-  const oneMinusC = -Math.expm1(-cycle / h);
-  const delta = settleGap(n, tolerance, profile.length);
-  // The contraction guarantees convergence well within this; the cap only guards against rounding surprises.
-  const maxCycles = 10 * cyclesNeeded(n, tolerance, cycle / h, oneMinusC) + 100;
-  // Cycles over which the exact map shrinks the step at least by half (c^window <= 1/2): a step that
-  // does not halve over that many cycles has reached the rounding noise, and iterating further is futile.
-  const window = Math.ceil(Math.LN2 / (cycle / h)) + 1;
-  const history: number[] = [];
-  const work: Work = { v: new Float64Array(n + 1), u: new Float64Array(n + 1), out: new Float64Array(n + 1), stay: new Float64Array(n + 1), down: new Float64Array(n + 1) };
-  // Start from the truncated Poisson law at the infinite-server load m(0): near the answer in both limits.
-  const p = Float64Array.from(erlangBStateDistribution(n, Math.min(periodicInfiniteServerLoad(profile, h), 1e7)));
-  const previous = new Float64Array(n + 1);
-  let steps = 0;
-  for (let cycles = 1; ; cycles++) {
-    previous.set(p);
-    const r = runCycle(p, plans, n, mu, h, delta, work);
-    steps += r.steps;
-    // W1(start, p*) <= (W1(start, Φ start) + η) / (1 − c); every value along the cycle inherits it.
-    const step = w1(previous, p);
-    const startError = (step + r.lawError) / oneMinusC;
-    history.push(step);
-    const stalled = history.length > window && step > 0.5 * history[history.length - 1 - window];
-    if (startError > tolerance && !stalled && cycles < maxCycles) continue;
-    if (startError > tolerance && !stalled) throw new TeletrafficConvergenceError(`periodic solution not within ${tolerance} after ${cycles} cycles (bound ${startError})`, cycles);
-    const segments: PeriodicLossSegment[] = [];
-    let offered = 0;
-    let refused = 0;
-    let blockedTime = 0;
-    let busyTime = 0;
-    let worst = 0;
-    plans.forEach((plan, s) => {
-      const congestion = r.blockedTime[s] / plan.duration;
-      // Flow balance of the forward equations: d E[busy]/dt = λ (1 − p_N) − μ E[busy].
-      const meanEnd = s + 1 < plans.length ? r.meanAtStart[s + 1] : r.meanAtEnd;
-      const busy = (plan.rate * (plan.duration - r.blockedTime[s]) - (meanEnd - r.meanAtStart[s])) / mu;
-      segments.push({
-        start: plan.start,
-        duration: plan.duration,
-        rate: plan.rate,
-        timeCongestion: congestion,
-        callCongestion: congestion,
-        blockingAtStart: r.blockingAtStart[s],
-        carriedTraffic: busy / plan.duration,
-      });
-      offered += plan.rate * plan.duration;
-      refused += plan.rate * r.blockedTime[s];
-      blockedTime += r.blockedTime[s];
-      busyTime += busy;
-      worst = Math.max(worst, r.integralError[s] / plan.duration);
+  const sol = solvePeriodicBirthDeath({ servers: n, capacity: n, mu: 1 / h, alpha: 0 }, profile, h, tolerance);
+  const segments: PeriodicLossSegment[] = [];
+  let offered = 0;
+  let refused = 0;
+  let blockedTime = 0;
+  let busyTime = 0;
+  sol.plans.forEach((plan, s) => {
+    const g = sol.segments[s];
+    const congestion = g.full / plan.duration;
+    segments.push({
+      start: plan.start,
+      duration: plan.duration,
+      rate: plan.rate,
+      timeCongestion: congestion,
+      callCongestion: congestion,
+      blockingAtStart: g.fullAtStart,
+      carriedTraffic: g.busy / plan.duration,
     });
-    return assertFiniteResult(
-      {
-        method: "M(t)/M/N/N periodic forward equations: uniformisation, fixed point of the cycle map (exact to errorBound)",
-        servers: n,
-        cycle,
-        offeredTraffic: (offered / cycle) * h,
-        segments,
-        callCongestion: refused / offered,
-        timeCongestion: blockedTime / cycle,
-        carriedTraffic: busyTime / cycle,
-        errorBound: startError + r.lawError + worst,
-        tolerance,
-        cycles,
-        steps,
-      },
-      "periodicLossSystem",
-    );
-  }
+    offered += plan.rate * plan.duration;
+    refused += plan.rate * g.full;
+    blockedTime += g.full;
+    busyTime += g.busy;
+  });
+  return assertFiniteResult(
+    {
+      method: "M(t)/M/N/N periodic forward equations: uniformisation, fixed point of the cycle map (exact to errorBound)",
+      servers: n,
+      cycle: sol.cycle,
+      offeredTraffic: (offered / sol.cycle) * h,
+      segments,
+      callCongestion: refused / offered,
+      timeCongestion: blockedTime / sol.cycle,
+      carriedTraffic: busyTime / sol.cycle,
+      errorBound: sol.errorBound,
+      tolerance,
+      cycles: sol.cycles,
+      steps: sol.steps,
+    },
+    "periodicLossSystem",
+  );
+}
+
+export const periodicQueueInputSchema = z
+  .object({
+    servers: timeVaryingServersField,
+    waitingPositions: z.number().int().min(1).max(100_000).describe("waiting positions Q (FIFO)"),
+    profile: profileField,
+    meanHolding: timeVaryingHoldingField,
+    meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a waiting call (it abandons after it); default: waits for ever"),
+    tolerance: toleranceField,
+  })
+  .superRefine((v, ctx) => {
+    refineProfileHasTraffic(v.profile, ctx);
+    const work = periodicQueueWork(v.servers, v.waitingPositions, v.profile, v.meanHolding, v.meanPatience, v.tolerance);
+    if (!Number.isFinite(work))
+      ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: "without patience this waiting room is overloaded for most of the cycle: no contraction bound, so no error bound can be stated" });
+    else if (work > MAX_PERIODIC_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_WORK} state updates` });
+  })
+  .describe("time-varying Poisson arrivals on N servers with Q waiting positions (exponential holding, optional exponential patience): exact periodic measures (forward equations)");
+export type PeriodicQueueInput = z.input<typeof periodicQueueInputSchema>;
+
+/** Estimated state updates of periodicQueueSystem (Infinity when no error bound can be stated). */
+export function periodicQueueWork(
+  servers: number,
+  waitingPositions: number,
+  profile: ReadonlyArray<{ duration: number; rate: number }>,
+  meanHolding: number,
+  meanPatience?: number,
+  tolerance = 1e-12,
+): number {
+  return birthDeathWork({ servers, capacity: servers + waitingPositions, mu: 1 / meanHolding, alpha: meanPatience ? 1 / meanPatience : 0 }, profile, tolerance);
+}
+
+export interface PeriodicQueueSegment {
+  start: number;
+  duration: number;
+  rate: number;
+  /** Share of the segment's arrivals refused (servers and waiting positions all taken) = time average of P(k = N + Q). */
+  callCongestion: number;
+  /** Time average of P(all N servers busy). */
+  timeCongestion: number;
+  carriedTraffic: number;
+  meanQueueLength: number;
+}
+
+export interface PeriodicQueueResult {
+  method: string;
+  servers: number;
+  waitingPositions: number;
+  cycle: number;
+  offeredTraffic: number;
+  segments: PeriodicQueueSegment[];
+  /** Over the cycle: arrivals refused / arrivals. */
+  callCongestion: number;
+  timeCongestion: number;
+  carriedTraffic: number;
+  /** Over the cycle: share of admitted calls that wait, mean wait of admitted calls (Little's law over a period), abandonment. */
+  waitingProbability: number;
+  meanWait: number;
+  meanQueueLength: number;
+  abandonmentProbability: number;
+  /** Share of arrivals refused or abandoning. */
+  lossProbability: number;
+  /** Bound on the absolute error of every time-average probability and mean count (ratios of them inherit it). */
+  errorBound: number;
+  tolerance: number;
+  cycles: number;
+  steps: number;
+}
+
+/**
+ * Exact periodic M(t)/M/N/N+Q (+M): the same forward equations on N + Q + 1 states. Arrivals in a
+ * segment see its time average (PASTA within the segment); over a cycle in the periodic regime,
+ * Little's law holds for the waiting calls (each cycle admits and releases the same expected
+ * number), so the mean wait of admitted calls is ∫ E[queue] / admitted calls per cycle.
+ */
+export function periodicQueueSystem(input: PeriodicQueueInput): PeriodicQueueResult {
+  const { servers: n, waitingPositions: q, profile, meanHolding: h, meanPatience, tolerance } = parseInput(periodicQueueInputSchema, input);
+  const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
+  const sol = solvePeriodicBirthDeath({ servers: n, capacity: n + q, mu: 1 / h, alpha }, profile, h, tolerance);
+  const segments: PeriodicQueueSegment[] = [];
+  let offered = 0;
+  let refused = 0;
+  let admitted = 0;
+  let admittedToWait = 0;
+  let allBusy = 0;
+  let busy = 0;
+  let queue = 0;
+  sol.plans.forEach((plan, s) => {
+    const g = sol.segments[s];
+    segments.push({
+      start: plan.start,
+      duration: plan.duration,
+      rate: plan.rate,
+      callCongestion: g.full / plan.duration,
+      timeCongestion: g.allBusy / plan.duration,
+      carriedTraffic: g.busy / plan.duration,
+      meanQueueLength: g.queue / plan.duration,
+    });
+    offered += plan.rate * plan.duration;
+    refused += plan.rate * g.full;
+    admitted += plan.rate * (plan.duration - g.full);
+    admittedToWait += plan.rate * (g.allBusy - g.full);
+    allBusy += g.allBusy;
+    busy += g.busy;
+    queue += g.queue;
+  });
+  const abandoned = alpha * queue;
+  return assertFiniteResult(
+    {
+      method: `M(t)/M/N/N+Q${alpha > 0 ? " with exponential patience" : ""} periodic forward equations: uniformisation, fixed point of the cycle map (exact to errorBound${sol.weightRatio !== 1 ? `; distance weighted ×${sol.weightRatio.toPrecision(3)} per waiting position` : ""})`,
+      servers: n,
+      waitingPositions: q,
+      cycle: sol.cycle,
+      offeredTraffic: (offered / sol.cycle) * h,
+      segments,
+      callCongestion: refused / offered,
+      timeCongestion: allBusy / sol.cycle,
+      carriedTraffic: busy / sol.cycle,
+      waitingProbability: admitted > 0 ? admittedToWait / admitted : 0,
+      meanWait: admitted > 0 ? queue / admitted : 0,
+      meanQueueLength: queue / sol.cycle,
+      abandonmentProbability: admitted > 0 ? abandoned / admitted : 0,
+      lossProbability: Math.min(1, (refused + abandoned) / offered),
+      errorBound: sol.errorBound,
+      tolerance,
+      cycles: sol.cycles,
+      steps: sol.steps,
+    },
+    "periodicQueueSystem",
+  );
 }

@@ -47,6 +47,19 @@ describe("simulate CLI", () => {
     expect(table).toContain("[1] Erlang B (exact)");
   });
 
+  it("without --json, a time-varying run also prints its per-segment table (formatter: segment-table.test.ts)", () => {
+    const varying = { ...small, arrivals: { process: "time-varying", profile: [{ duration: 2, rate: 2 }, { duration: 1, rate: 7 }] }, run: { seed: 3, replications: 4, callsPerReplication: 1000 } };
+    const r = cli(file("varying.json", JSON.stringify(varying)));
+    expect(r.status).toBe(0);
+    const lines = r.stdout.split("\n");
+    const header = lines.findIndex((l) => l.startsWith("time in cycle"));
+    expect(lines[header - 1]).toMatch(/^Per profile segment/);
+    expect(lines[header]).toMatch(/offered \(E\)\s+calls\s+call congestion\s+95% CI\s+time congestion\s+exact\s+PSA\s+MOL$/);
+    expect(lines[header + 2]).toMatch(/^0 \.\. 2 /);
+    expect(lines[header + 3]).toMatch(/^2 \.\. 3 /);
+    expect(lines[header + 4]).toBe("");
+  });
+
   const bad: Array<[string, () => string, RegExp]> = [
     ["a missing file", () => path.join(dir, "nope.json"), /^simulate: cannot read .*nope\.json: no such file$/],
     ["invalid JSON, with the line", () => file("broken.json", '{\n  "servers": 5,\n  "arrivals": { "process": "poisson" "rate": 4 }\n}'), /broken\.json: invalid JSON at line 3, column \d+/],

@@ -2,8 +2,8 @@
 // standardised error (estimate − exact) / SE is Student t with n − 1 degrees of freedom (the
 // replications are i.i.d.; Law 2015, ch. 9), so each check |error| <= t(0.9995, n − 1) SE
 // (expectAgrees) fails with probability 0.001 at a random seed; the seeds are fixed, so every
-// check is deterministic. 24 checks at 0.001: a correct engine passes all at a random seed with
-// probability >= 0.976. Each run is sized so the relative half-width is a few per cent.
+// check is deterministic. 29 checks at 0.001: a correct engine passes all at a random seed with
+// probability >= 0.971. Each run is sized so the relative half-width is a few per cent.
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { describe, expect, it } from "vitest";
 import { parseScenario, runScenario, type ScenarioInput } from "../../../lib/simulation/node";
@@ -75,6 +75,21 @@ describe("seeded runs agree with the new exact references (99.9 % t bound per ch
       { servers: 4, waitingPositions: 3, patience: exponential(1), arrivals: { process: "on-off", onRate: 8, meanOn: 1, meanOff: 1 }, holding: exponential(1), run: run(107) },
       "MMPP/M/N/N+Q exact chain",
       [["callCongestion", "callCongestion"], ["abandonmentProbability", "abandonmentProbability"]],
+    );
+  });
+  it("time-varying load with waiting positions and exponential patience (periodic N + Q chain)", async () => {
+    // Horizon and warm-up are whole cycles (4.5), so each replication averages whole cycles of the periodic regime.
+    await check(
+      {
+        servers: 4,
+        waitingPositions: 3,
+        patience: exponential(1),
+        arrivals: { process: "time-varying", profile: [{ duration: 2, rate: 2 }, { duration: 1, rate: 9 }, { duration: 1.5, rate: 0.5 }] },
+        holding: exponential(1),
+        run: { seed: 109, replications: REPLICATIONS, horizon: 2_700, warmupTime: 27 },
+      },
+      "M(t)/M/N/N+Q periodic exact solution",
+      [["callCongestion", "callCongestion"], ["waitingProbability", "waitingProbability"], ["meanWait", "meanWait"], ["abandonmentProbability", "abandonmentProbability"], ["lossProbability", "lossProbability"]],
     );
   });
   it("renewal arrivals with lognormal interarrival times (numerical transform)", async () => {

@@ -50,7 +50,8 @@ describe("references registry", () => {
     expect(exactFor(arrivals[0], features[5][1])).toBe(false); // attempt limit
     expect(exactFor(arrivals[0], features[6][1])).toBe(false); // non-exponential retry delay
     expect(exactFor(arrivals[7], features[0][1])).toBe(true); // time-varying: the exact periodic solution
-    expect(exactFor(arrivals[7], features[1][1])).toBe(false); // time-varying with waiting positions
+    expect(exactFor(arrivals[7], features[1][1])).toBe(true); // time-varying with waiting positions: the exact periodic N + Q chain
+    expect(exactFor(arrivals[7], features[2][1])).toBe(true); // … and with exponential patience
   });
   it("non-exponential holding: Erlang B and Engset stay exact (insensitivity), the chains do not", () => {
     const lognormal = { law: "lognormal" as const, mean: 1, cv: 2 };

@@ -98,6 +98,7 @@ describe("operation registry", () => {
         "retrial-servers",
         "time-varying-loss",
         "periodic-loss",
+        "periodic-queue",
         "overflow-moments",
         "equivalent-random",
         "hayward",
@@ -150,6 +151,7 @@ describe("operation registry", () => {
       peakedness: { stream: { process: "renewal", interarrival: { law: "lognormal", mean: 0.1, cv: 2 } }, servers: 12 },
       "time-varying-loss": { servers: 10, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }] },
       "periodic-loss": { servers: 10, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }] },
+      "periodic-queue": { servers: 10, waitingPositions: 3, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }], meanPatience: 2 },
       "overflow-loss": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4 },
       "multi-rate": { capacity: 20, classes: [{ traffic: 5, bandwidth: 1 }, { traffic: 1, bandwidth: 4 }] },
     };

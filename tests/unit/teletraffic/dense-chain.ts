@@ -115,3 +115,64 @@ export function denseOverflowNetwork(primaries: Array<{ traffic: number; servers
   }
   return { blocking: lost / offered, timeCongestion: full, overflowOffered: offered };
 }
+
+export type Matrix = number[][];
+export const zeros = (n: number): Matrix => Array.from({ length: n }, () => new Array<number>(n).fill(0));
+export function multiply(a: Matrix, b: Matrix): Matrix {
+  const n = a.length;
+  const c = zeros(n);
+  for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) if (a[i][k] !== 0) for (let j = 0; j < n; j++) c[i][j] += a[i][k] * b[k][j];
+  return c;
+}
+
+/** e^A by scaling and squaring with a degree-30 Taylor sum (Moler & Van Loan, SIAM Review 45, 2003, method 3). */
+export function expm(a: Matrix): Matrix {
+  const n = a.length;
+  let norm = 0;
+  for (const row of a) norm = Math.max(norm, row.reduce((s, v) => s + Math.abs(v), 0));
+  const squarings = Math.max(0, Math.ceil(Math.log2(norm / 0.5)));
+  const scale = 2 ** -squarings;
+  const scaled = a.map((row) => row.map((v) => v * scale));
+  let term: Matrix = zeros(n).map((row, i) => row.map((_, j) => (i === j ? 1 : 0)));
+  let sum = term.map((row) => row.slice());
+  for (let k = 1; k <= 30; k++) {
+    term = multiply(term, scaled).map((row) => row.map((v) => v / k));
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) sum[i][j] += term[i][j];
+  }
+  for (let s = 0; s < squarings; s++) sum = multiply(sum, sum);
+  return sum;
+}
+
+/**
+ * Periodic steady state of a CTMC whose generator is constant on each segment, by dense linear
+ * algebra: each segment's e^{Q d} and ∫_0^d e^{Qs} ds from one exponential of [[Q d, I d], [0, 0]]
+ * (Van Loan, IEEE Trans. Automatic Control 23, 1978), the cycle matrix as their product, its
+ * stationary vector by Gaussian elimination. Returns the law at each segment start and each
+ * segment's occupation integral (expected time in each state).
+ */
+export function densePeriodic(segments: Array<{ duration: number; transitions: Array<[number, number, number]> }>, states: number): { starts: number[][]; occupations: number[][] } {
+  const blocks = segments.map(({ duration, transitions }) => {
+    const big = zeros(2 * states);
+    for (const [from, to, rate] of transitions) {
+      if (from === to || rate === 0) continue;
+      big[from][to] += rate * duration;
+      big[from][from] -= rate * duration;
+    }
+    for (let k = 0; k < states; k++) big[k][states + k] = duration;
+    const e = expm(big);
+    return { transition: e.slice(0, states).map((row) => row.slice(0, states)), integral: e.slice(0, states).map((row) => row.slice(states)) };
+  });
+  let cycle: Matrix = zeros(states).map((row, i) => row.map((_, j) => (i === j ? 1 : 0)));
+  for (const b of blocks) cycle = multiply(cycle, b.transition);
+  const t: Array<[number, number, number]> = [];
+  for (let i = 0; i < states; i++) for (let j = 0; j < states; j++) if (i !== j) t.push([i, j, cycle[i][j]]);
+  let p = denseStationary(states, t);
+  const starts: number[][] = [];
+  const occupations: number[][] = [];
+  for (const b of blocks) {
+    starts.push(p);
+    occupations.push(Array.from({ length: states }, (_, j) => p.reduce((acc, pi, i) => acc + pi * b.integral[i][j], 0)));
+    p = Array.from({ length: states }, (_, j) => p.reduce((acc, pi, i) => acc + pi * b.transition[i][j], 0));
+  }
+  return { starts, occupations };
+}

@@ -4,34 +4,7 @@
 // at the mean load).
 import { describe, expect, it } from "vitest";
 import { analyticOperations, erlangB, periodicLossSystem, timeVaryingLoss, TeletrafficInputError } from "../../../lib/teletraffic";
-import { denseStationary, relativeError } from "./dense-chain";
-
-type Matrix = number[][];
-const zeros = (n: number): Matrix => Array.from({ length: n }, () => new Array<number>(n).fill(0));
-function multiply(a: Matrix, b: Matrix): Matrix {
-  const n = a.length;
-  const c = zeros(n);
-  for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) if (a[i][k] !== 0) for (let j = 0; j < n; j++) c[i][j] += a[i][k] * b[k][j];
-  return c;
-}
-
-/** e^A by scaling and squaring with a degree-30 Taylor sum (Moler & Van Loan, SIAM Review 45, 2003, method 3). */
-function expm(a: Matrix): Matrix {
-  const n = a.length;
-  let norm = 0;
-  for (const row of a) norm = Math.max(norm, row.reduce((s, v) => s + Math.abs(v), 0));
-  const squarings = Math.max(0, Math.ceil(Math.log2(norm / 0.5)));
-  const scale = 2 ** -squarings;
-  const scaled = a.map((row) => row.map((v) => v * scale));
-  let term: Matrix = zeros(n).map((row, i) => row.map((_, j) => (i === j ? 1 : 0)));
-  let sum = term.map((row) => row.slice());
-  for (let k = 1; k <= 30; k++) {
-    term = multiply(term, scaled).map((row) => row.map((v) => v / k));
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) sum[i][j] += term[i][j];
-  }
-  for (let s = 0; s < squarings; s++) sum = multiply(sum, sum);
-  return sum;
-}
+import { denseStationary, expm, multiply, relativeError, zeros, type Matrix } from "./dense-chain";
 
 /**
  * The periodic solution by dense linear algebra, written without the library's structure: each
