@@ -7,13 +7,15 @@ const env = (name: string): string | undefined => {
   return value === undefined || value === "" ? undefined : value;
 };
 
-const positiveInteger = (name: string, fallback: number): number => {
+const wholeNumber = (name: string, fallback: number, min: number): number => {
   const raw = env(name);
   if (raw === undefined) return fallback;
   const value = Number(raw);
-  if (!Number.isInteger(value) || value <= 0) throw new Error(`${name} must be a positive whole number, not "${raw}".`);
+  if (!Number.isInteger(value) || value < min) throw new Error(`${name} must be a whole number of at least ${min}, not "${raw}".`);
   return value;
 };
+
+const positiveInteger = (name: string, fallback: number): number => wholeNumber(name, fallback, 1);
 
 export function databaseUrl(): string {
   const url = env("DATABASE_URL");
@@ -84,6 +86,6 @@ export const workerConfig = {
   threads: (cores: number): number => positiveInteger("SPILLWAY_WORKER_THREADS", cores),
   /** Chunks a process fetches ahead of its free threads, so a thread never waits on the queue. */
   chunkLookahead: (): number => positiveInteger("SPILLWAY_CHUNK_LOOKAHEAD", 4),
-  /** Seconds a stopping worker lets running chunks finish before it hands them back to the queue. */
-  graceSeconds: (): number => positiveInteger("SPILLWAY_WORKER_GRACE_SECONDS", 20),
+  /** Seconds a stopping worker lets running chunks finish before it hands them back to the queue (0: at once). */
+  graceSeconds: (): number => wholeNumber("SPILLWAY_WORKER_GRACE_SECONDS", 20, 0),
 };
