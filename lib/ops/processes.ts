@@ -1,7 +1,7 @@
 // A small supervisor: starts the web server, worker and fake mail as child processes and stops them together.
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { createHash } from "node:crypto";
-import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
+import { appendFileSync, existsSync, mkdirSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { projectRoot } from "./environment";
 
@@ -11,7 +11,9 @@ export interface ManagedProcess {
 }
 
 export interface StartOptions {
+  /** Keep the output off the terminal; with `logFile`, append it there instead (the test stack). */
   quiet?: boolean;
+  logFile?: string;
   /**
    * Start the process again when it dies (worker processes): after 1 s, doubling up to 30 s while
    * it keeps dying within a minute of starting. Without it an unexpected exit is reported through
@@ -40,9 +42,13 @@ export class Supervisor {
     const child = spawn(process.execPath, args, { cwd: projectRoot, env, stdio: ["ignore", "pipe", "pipe"] });
     const startedAt = Date.now();
     const prefix = `[${name}] `;
+    if (options.logFile) mkdirSync(path.dirname(options.logFile), { recursive: true });
     const forward = (stream: NodeJS.WriteStream) => (chunk: Buffer) => {
-      if (options.quiet) return;
-      for (const line of chunk.toString().split(/\r?\n/)) if (line.trim()) stream.write(prefix + line + "\n");
+      for (const line of chunk.toString().split(/\r?\n/)) {
+        if (!line.trim()) continue;
+        if (options.logFile) appendFileSync(options.logFile, `${new Date().toISOString()} ${prefix}${line}\n`);
+        if (!options.quiet) stream.write(prefix + line + "\n");
+      }
     };
     child.stdout?.on("data", forward(process.stdout));
     child.stderr?.on("data", forward(process.stderr));

@@ -108,10 +108,12 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
   }
   const supervisor = new Supervisor();
   const quiet = options.profile === "test";
-  if (env.SPILLWAY_FAKE_MAIL === "1") supervisor.start("mail", nodeWithTsx("lib/mail/fake-smtp-server.ts"), env, { quiet });
-  supervisor.start("web", ["--require", webHooks, nextBin, "start", "--hostname", "127.0.0.1", "--port", String(options.webPort)], env, { quiet });
+  // The test stack keeps each process's output in tests/.output/stack/<name>.log, for reading after a failure.
+  const output = (name: string) => ({ quiet, ...(quiet ? { logFile: path.join(projectRoot, "tests/.output/stack", `${name}.log`) } : {}) });
+  if (env.SPILLWAY_FAKE_MAIL === "1") supervisor.start("mail", nodeWithTsx("lib/mail/fake-smtp-server.ts"), env, output("mail"));
+  supervisor.start("web", ["--require", webHooks, nextBin, "start", "--hostname", "127.0.0.1", "--port", String(options.webPort)], env, output("web"));
   // Workers restart with backoff when they die; the web server keeps serving meanwhile.
-  for (let i = 1; i <= workers; i++) supervisor.start(`worker-${i}`, nodeWithTsx("worker/main.ts"), env, { quiet, restart: true });
+  for (let i = 1; i <= workers; i++) supervisor.start(`worker-${i}`, nodeWithTsx("worker/main.ts"), env, { ...output(`worker-${i}`), restart: true });
   const stop = async () => {
     await supervisor.stopAll();
     stopDatabase();

@@ -100,6 +100,8 @@ async function main(): Promise<number> {
     counts.push({ suite: "playwright", passed: 0, failed: 1, skipped: 0 });
   }
   if (stack) {
+    stack.supervisor.onRestart = (name, code, delayMs) => log(`${name} exited (status ${code}); starting it again in ${delayMs / 1000} s (see tests/.output/stack/${name}.log).`);
+    stack.supervisor.onUnexpectedExit = (name, code) => log(`${name} exited unexpectedly (status ${code}); see tests/.output/stack/${name}.log.`);
     try {
       counts.push(runPlaywright({ ...stack.env }));
     } finally {

@@ -2,12 +2,13 @@ import { nearRefusalMargin, type ReplicationOptions, type ReplicationStats } fro
 import { BatchSizeSampler, LawSampler } from "./laws";
 import { Random, SUBSTREAM } from "./random";
 import type { Scenario } from "./scenario";
+import type { Law } from "../teletraffic/laws";
 import { mmppOf, stationaryOfGenerator } from "./traffic";
-import { zigExponential as importedZigExponential } from "./ziggurat";
+import * as ziggurat from "./ziggurat";
 
-// A module-local binding: module loaders that turn imports into property getters (tsx, vitest)
+// Module-local bindings: module loaders that turn imports into property getters (tsx, vitest)
 // would otherwise pay a getter call on every draw.
-const zigExponential = importedZigExponential;
+const { zigExponential, zigNormal } = ziggurat;
 
 /**
  * The specialised event loop: the reference loop's model and event order (engine.ts), with the
@@ -40,6 +41,15 @@ const A_BATCH = 3;
 const A_OVERFLOW = 4;
 const A_FINITE = 5;
 
+/**
+ * Starting value of every field that will hold fractions. V8 gives a field the representation of the
+ * first value stored in it, and a field created holding a small integer that later receives a
+ * fraction deprecates the object's hidden class: that deoptimised the loop a few times per run, and
+ * again in every fresh worker thread. NaN is a double, and a field left at it would show in the
+ * results; the constructor stores every real starting value.
+ */
+const UNSET = Number.NaN;
+
 export type StreamKind = "ziggurat" | "reference";
 
 export interface FastLoopOptions extends Omit<ReplicationOptions, "generalLoop"> {
@@ -56,6 +66,43 @@ export function fastLoopRefusal(scenario: Scenario): string | undefined {
   if (reordering && (lattice(scenario.holding) || lattice(scenario.patience) || lattice(scenario.retrials?.delay)))
     return "simultaneous heap events of different kinds are possible (lattice laws with retrials or patience)";
   return undefined;
+}
+
+/** What a LawSampler keeps (laws.ts): read here to draw the commonest laws where the loop can inline them. */
+interface SamplerParameters {
+  readonly code: number;
+  readonly a: number;
+  readonly b: number;
+  readonly table: Float64Array;
+  readonly values: Float64Array;
+}
+
+// The sampler codes of the ziggurat laws drawn inline, taken from laws.ts itself. Means and
+// coefficients of variation that are not small integers also settle LawSampler's fields on their
+// double representation at load, before any loop is compiled against them.
+const codeOf = (law: Law) => new LawSampler(law, { ziggurat: true }).code;
+const ZIG_EXPONENTIAL = codeOf({ law: "exponential", mean: 0.5 });
+const ZIG_LOGNORMAL = codeOf({ law: "lognormal", mean: 0.5, cv: 0.5 });
+const ZIG_HYPEREXPONENTIAL = codeOf({ law: "hyperexponential", mean: 0.5, scv: 4 });
+
+/**
+ * LawSampler.sample with the commonest ziggurat laws written out: the same operations in the same
+ * order, so the same draws. Kept short, since V8 inlines only so much bytecode into one function:
+ * inlined into the loop, the draw stays an unboxed double (a call returns it boxed, which
+ * allocates). Every other law goes to the sampler.
+ */
+function draw(sampler: LawSampler, rng: Random): number {
+  const p = sampler as unknown as SamplerParameters;
+  const code = p.code;
+  return code === ZIG_EXPONENTIAL ? p.a * zigExponential(rng) : code === ZIG_LOGNORMAL ? Math.exp(p.a + p.b * zigNormal(rng)) : code === ZIG_HYPEREXPONENTIAL ? hyperexponentialDraw(p, rng) : sampler.sample(rng);
+}
+
+function hyperexponentialDraw(p: SamplerParameters, rng: Random): number {
+  const table = p.table;
+  const u = rng.next();
+  let i = 0;
+  while (i < table.length - 1 && u > table[i]) i++;
+  return p.values[i] * zigExponential(rng);
 }
 
 /** Standard exponential draw of the chosen streams; -log(u) is the reference loop's form. */
@@ -80,9 +127,9 @@ export class FastReplication {
   private readonly persistence: number;
   private readonly maxAttempts: number;
   private readonly patience?: LawSampler;
-  private readonly rate: number = 0;
+  private readonly rate: number = UNSET;
   private readonly sources: number = 0;
-  private readonly idleRate: number = 0;
+  private readonly idleRate: number = UNSET;
   private readonly phaseRates: Float64Array = new Float64Array(0);
   private readonly phaseOut: Float64Array = new Float64Array(0);
   private readonly phaseJump: Float64Array[] = [];
@@ -94,7 +141,7 @@ export class FastReplication {
   private readonly primaryArrivals: Float64Array = new Float64Array(0);
   private readonly primaryOverflows: Float64Array = new Float64Array(0);
   /** Sum of the rates of the primaries that are full: the overflow stream's intensity. */
-  private overflowIntensity = 0;
+  private overflowIntensity = UNSET;
 
   private readonly arrivalRng: Random;
   private readonly holdingRng: Random;
@@ -110,7 +157,7 @@ export class FastReplication {
   private queueHead = 0;
   private queueTail = 0;
 
-  private t = 0;
+  private t = UNSET;
   private busy = 0;
   private orbit = 0;
   private waiting = 0;
@@ -140,41 +187,43 @@ export class FastReplication {
   private admitted = 0;
   private waited = 0;
   private abandoned = 0;
-  private waitSum = 0;
-  private busyIntegral = 0;
-  private orbitIntegral = 0;
-  private queueIntegral = 0;
-  private measureStart = 0;
+  private waitSum = UNSET;
+  private busyIntegral = UNSET;
+  private orbitIntegral = UNSET;
+  private queueIntegral = UNSET;
+  private measureStart = UNSET;
   private events = 0;
-  private readonly meanCallRate: number = 0;
-  private intensityIntegral = 0;
-  private refusingIntensityIntegral = 0;
-  private refusingTime = 0;
+  private readonly meanCallRate: number = UNSET;
+  private intensityIntegral = UNSET;
+  private refusingIntensityIntegral = UNSET;
+  private refusingTime = UNSET;
   private holdingDraws = 0;
-  private holdingSum = 0;
+  private holdingSum = UNSET;
   /** Lowest level (busy + waiting) counted as near refusal (engine.ts nearRefusalMargin). */
   private readonly nearLevel: number;
-  private nearRefusalTime = 0;
+  private nearRefusalTime = UNSET;
   private nearRefusalCalls = 0;
-  private nearRefusalIntensityIntegral = 0;
+  private nearRefusalIntensityIntegral = UNSET;
   private nearRefusalHoldingDraws = 0;
-  private nearRefusalHoldingSum = 0;
-  private nearRefusalGapDeviation = 0;
-  private phaseSojournDeviation = 0;
-  private nearRefusalPhaseSojournDeviation = 0;
+  private nearRefusalHoldingSum = UNSET;
+  private nearRefusalGapDeviation = UNSET;
+  private phaseSojournDeviation = UNSET;
+  private nearRefusalPhaseSojournDeviation = UNSET;
   private readonly halfCalls: number;
   private readonly halfSpan: number;
   private halfTaken = false;
-  private halfTime = 0;
-  private halfBusyIntegral = 0;
-  private halfOrbitIntegral = 0;
-  private halfQueueIntegral = 0;
+  private halfTime = UNSET;
+  private halfBusyIntegral = UNSET;
+  private halfOrbitIntegral = UNSET;
+  private halfQueueIntegral = UNSET;
   private readonly occupancy: Float64Array;
 
   constructor(scenario: Scenario, index: number, options: FastLoopOptions = {}) {
     const refusal = fastLoopRefusal(scenario);
     if (refusal) throw new Error(`the specialised loop does not run this scenario: ${refusal}`);
     this.index = index;
+    this.t = this.measureStart = this.overflowIntensity = 0;
+    this.rate = this.idleRate = this.meanCallRate = 0;
     const zig = (this.zig = (options.streams ?? "ziggurat") === "ziggurat");
     const seed = scenario.run.seed;
     this.arrivalRng = new Random(seed, index, SUBSTREAM.arrivals);
@@ -190,6 +239,7 @@ export class FastReplication {
     this.persistence = retrials?.persistence ?? 0;
     this.maxAttempts = retrials?.maxAttempts ?? Infinity;
     this.occupancy = new Float64Array(this.servers + 1);
+    this.zeroStatistics();
 
     const a = scenario.arrivals;
     const mmpp = mmppOf(a);
@@ -286,6 +336,11 @@ export class FastReplication {
   private startMeasuring(): void {
     this.measuring = true;
     this.measureStart = this.t;
+    this.zeroStatistics();
+    this.control = this.horizon === Infinity ? Infinity : this.t + this.horizon;
+  }
+
+  private zeroStatistics(): void {
     this.calls = this.blockedFirst = this.attempts = this.blockedAttempts = this.lost = 0;
     this.admitted = this.waited = this.abandoned = 0;
     this.waitSum = this.busyIntegral = this.orbitIntegral = this.queueIntegral = 0;
@@ -298,7 +353,6 @@ export class FastReplication {
     this.halfTaken = false;
     this.halfTime = this.halfBusyIntegral = this.halfOrbitIntegral = this.halfQueueIntegral = 0;
     this.occupancy.fill(0);
-    this.control = this.horizon === Infinity ? Infinity : this.t + this.horizon;
   }
 
   /** Draws both MMPP clocks for the current phase (phase change first, as the reference loop does); `level` is busy + waiting. */
@@ -318,6 +372,13 @@ export class FastReplication {
     this.nextArrival = r > 0 ? this.t + unitExponential(this.arrivalRng, this.zig) / r : Infinity;
   }
 
+  /** One renewal interarrival gap; `level` is busy + waiting when it is drawn. */
+  private renewalGap(level: number): number {
+    const gap = draw(this.interarrival!, this.arrivalRng);
+    if (this.measuring && level >= this.nearLevel) this.nearRefusalGapDeviation += gap / this.interarrival!.mean - 1;
+    return gap;
+  }
+
   /** The next fresh arrival instant after `t` (for finite sources it depends on the state). */
   private freshArrivalAfter(t: number, busy: number, orbit: number, waiting: number): number {
     switch (this.arrivalKind) {
@@ -325,11 +386,8 @@ export class FastReplication {
         const r = this.phaseRates[this.phase];
         return r > 0 ? t + unitExponential(this.arrivalRng, this.zig) / r : Infinity;
       }
-      case A_RENEWAL: {
-        const gap = this.interarrival!.sample(this.arrivalRng);
-        if (this.measuring && busy + waiting >= this.nearLevel) this.nearRefusalGapDeviation += gap / this.interarrival!.mean - 1;
-        return t + gap;
-      }
+      case A_RENEWAL:
+        return t + this.renewalGap(busy + waiting);
       case A_FINITE: {
         const idle = this.sources - busy - orbit - waiting;
         return idle > 0 ? t + unitExponential(this.arrivalRng, this.zig) / (idle * this.idleRate) : Infinity;
@@ -339,51 +397,14 @@ export class FastReplication {
     }
   }
 
-  private push(time: number, data: number): void {
-    if (this.heapSize === this.heapTime.length) {
-      const time2 = new Float64Array(this.heapSize * 2);
-      const data2 = new Float64Array(this.heapSize * 2);
-      time2.set(this.heapTime);
-      data2.set(this.heapData);
-      this.heapTime = time2;
-      this.heapData = data2;
-    }
-    const ht = this.heapTime;
-    const hd = this.heapData;
-    let i = this.heapSize++;
-    while (i > 0) {
-      const parent = (i - 1) >> 1;
-      const pt = ht[parent];
-      if (pt <= time) break;
-      ht[i] = pt;
-      hd[i] = hd[parent];
-      i = parent;
-    }
-    ht[i] = time;
-    hd[i] = data;
-  }
-
-  /** Removes the root; the caller has read it already. */
-  private popRoot(): void {
-    const ht = this.heapTime;
-    const hd = this.heapData;
-    const n = --this.heapSize;
-    if (n === 0) return;
-    const time = ht[n];
-    const data = hd[n];
-    let i = 0;
-    for (;;) {
-      let child = 2 * i + 1;
-      if (child >= n) break;
-      if (child + 1 < n && ht[child + 1] < ht[child]) child++;
-      const ct = ht[child];
-      if (time <= ct) break;
-      ht[i] = ct;
-      hd[i] = hd[child];
-      i = child;
-    }
-    ht[i] = time;
-    hd[i] = data;
+  /** Doubles the event list's arrays; `size` entries are in use. */
+  private growHeap(size: number): void {
+    const time = new Float64Array(size * 2);
+    const data = new Float64Array(size * 2);
+    time.set(this.heapTime);
+    data.set(this.heapData);
+    this.heapTime = time;
+    this.heapData = data;
   }
 
   private growQueue(): void {
@@ -422,6 +443,21 @@ export class FastReplication {
     const sources = this.sources;
     const idleRate = this.idleRate;
     const phaseRates = this.phaseRates;
+    const ar = this.arrivalRng;
+    const interarrival = this.interarrival;
+    const interarrivalMean = interarrival ? interarrival.mean : 0;
+    const zig = this.zig;
+    const rate = this.rate;
+    // Poisson-timed fresh arrivals (Poisson, batch, overflow): their next instant is drawn inline.
+    const poissonTimed = kind === A_POISSON || kind === A_BATCH || overflow;
+    // The event list, in locals for the slice (heap.ts-style arrays; growHeap() replaces them).
+    let ht = this.heapTime;
+    let hd = this.heapData;
+    let hn = this.heapSize;
+    // Copies of fields that change only in startMeasuring() and enterPhase(), reread after those.
+    let nextPhase = this.nextPhase;
+    let control = this.control;
+    let measuring = this.measuring;
     let t = this.t;
     let busy = this.busy;
     let orbit = this.orbit;
@@ -451,26 +487,26 @@ export class FastReplication {
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
-      let next = this.heapSize > 0 ? this.heapTime[0] : Infinity;
+      let next = hn > 0 ? ht[0] : Infinity;
       let source = 0; // 0 heap, 1 phase change, 2 fresh arrival
-      if (this.nextPhase < next) {
-        next = this.nextPhase;
+      if (nextPhase < next) {
+        next = nextPhase;
         source = 1;
       }
       if (nextArrival < next) {
-        if (source === 0 && this.heapSize > 0 && next - nextArrival <= TIE * next) next = nextArrival;
+        if (source === 0 && hn > 0 && next - nextArrival <= TIE * next) next = nextArrival;
         else {
           next = nextArrival;
           source = 2;
         }
       }
-      const atControl = this.control <= next;
+      const atControl = control <= next;
       if (!atControl && next === Infinity) {
         finished = true; // nothing can happen any more
         break;
       }
       // Integrate the state over [t, to): the same operations, in the same order, as engine.ts.
-      const to = atControl ? this.control : next;
+      const to = atControl ? control : next;
       const dt = to - t;
       occupancy[busy] += dt;
       busyIntegral += busy * dt;
@@ -492,12 +528,14 @@ export class FastReplication {
       }
       t = to;
       if (atControl) {
-        if (this.measuring) {
+        if (measuring) {
           finished = true;
           break;
         }
         this.t = t;
         this.startMeasuring();
+        measuring = true;
+        control = this.control;
         calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
         busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
         nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
@@ -510,34 +548,46 @@ export class FastReplication {
       let attempt = 1;
       let fresh = true;
       let refuseAll = false;
+      // At most one heap entry from the event itself (a primary or a waiting call taking a server).
+      let pushTime = 0;
+      let pushData = -1;
+      // A departure's holding time is drawn where it is pushed (one draw site the compiler inlines);
+      // `servedLevel` is the level the call saw, -1 for a primary call (not counted).
+      let served = false;
+      let servedLevel = -1;
+      let primary = false;
+      let overflowed = -1;
       if (source === 2) {
-        let overflowed = -1;
         if (overflow) {
-          const u = this.arrivalRng.next();
+          const u = ar.next();
           let i = 0;
           while (u > this.primaryChoice[i]) i++;
           if (this.primaryBusy[i] < this.primaryServers[i]) {
-            if (this.measuring) this.primaryArrivals[i]++;
+            if (measuring) this.primaryArrivals[i]++;
             if (++this.primaryBusy[i] === this.primaryServers[i]) this.overflowIntensity += this.primaryRates[i];
-            this.push(t + holding.sample(hr), i * 4 + K_PRIMARY_DEPARTURE);
-            nextArrival = t + unitExponential(this.arrivalRng, this.zig) / this.rate;
-            continue;
-          }
-          overflowed = i;
+            served = true;
+            pushData = i * 4 + K_PRIMARY_DEPARTURE;
+            nextArrival = t + (zig ? zigExponential(ar) : -Math.log(ar.next())) / rate;
+            primary = true;
+          } else overflowed = i;
         }
-        if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
+      }
+      if (source === 2 && !primary) {
+        if (!measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
           this.t = t;
           this.startMeasuring();
+          measuring = true;
+          control = this.control;
           calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
           busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
-        nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
+          nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
         }
-        if (this.measuring && calls >= callsTarget) {
+        if (measuring && calls >= callsTarget) {
           events--;
           finished = true;
           break;
         }
-        if (overflowed >= 0 && this.measuring) {
+        if (overflowed >= 0 && measuring) {
           this.primaryArrivals[overflowed]++;
           this.primaryOverflows[overflowed]++;
         }
@@ -550,7 +600,7 @@ export class FastReplication {
           while (this.nextTrace <= this.callsSeen) this.nextTrace += traceEvery;
         }
         if (kind === A_BATCH) {
-          tries = this.batchSize!.sample(this.arrivalRng);
+          tries = this.batchSize!.sample(ar);
           refuseAll = this.allOrNothing && tries > servers - busy + waitingPositions - waiting;
           if (refuseAll && busy + waiting >= nearLevel) nearCalls += tries;
         } else tries = 1;
@@ -558,17 +608,36 @@ export class FastReplication {
         calls += tries;
       } else if (source === 1) {
         const jump = this.phaseJump[this.phase];
-        const u = this.arrivalRng.next();
+        const u = ar.next();
         let j = 0;
         while (u > jump[j]) j++;
         this.phase = j;
         this.t = t;
         this.enterPhase(busy + waiting);
+        nextPhase = this.nextPhase;
         nextArrival = this.nextArrival;
         continue;
-      } else {
-        const data = this.heapData[0];
-        this.popRoot();
+      } else if (source === 0) {
+        const data = hd[0];
+        // Remove the root: the last entry sifts down from the top.
+        const n = --hn;
+        if (n > 0) {
+          const time = ht[n];
+          const last = hd[n];
+          let i = 0;
+          for (;;) {
+            let child = 2 * i + 1;
+            if (child >= n) break;
+            if (child + 1 < n && ht[child + 1] < ht[child]) child++;
+            const ct = ht[child];
+            if (time <= ct) break;
+            ht[i] = ct;
+            hd[i] = hd[child];
+            i = child;
+          }
+          ht[i] = time;
+          hd[i] = last;
+        }
         const k = data < 2147483648 ? data & 3 : data % 4; // integer path; float modulo only for huge queue ids
         const payload = (data - k) / 4;
         if (k === K_DEPARTURE) {
@@ -582,14 +651,9 @@ export class FastReplication {
             waiting--;
             this.waitSum += t - this.queueArrival[pos];
             busy++;
-            const h = holding.sample(hr);
-            holdingDraws++;
-            holdingSum += h;
-            if (level >= nearLevel) {
-              nearDraws++;
-              nearSum += h;
-            }
-            this.push(t + h, K_DEPARTURE);
+            served = true;
+            servedLevel = level;
+            pushData = K_DEPARTURE;
             break;
           }
           if (waiting === 0) this.queueHead = this.queueTail; // drop abandoned leftovers
@@ -612,53 +676,93 @@ export class FastReplication {
         }
       }
 
-      for (let c = 0; c < tries; c++) {
-        attempts++;
-        const level = busy + waiting;
-        if (fresh && !refuseAll && level >= nearLevel) nearCalls++;
-        if (!refuseAll && busy < servers) {
-          busy++;
-          admitted++;
-          const h = holding.sample(hr);
-          holdingDraws++;
-          holdingSum += h;
-          if (level >= nearLevel) {
-            nearDraws++;
-            nearSum += h;
+      // Each attempt below may add one heap entry too: `c === -1` is the event's own entry.
+      for (let c = pushData >= 0 ? -1 : 0; c < tries; c++) {
+        if (c >= 0) {
+          pushData = -1;
+          served = false;
+          attempts++;
+          const level = busy + waiting;
+          if (fresh && !refuseAll && level >= nearLevel) nearCalls++;
+          if (!refuseAll && busy < servers) {
+            busy++;
+            admitted++;
+            served = true;
+            servedLevel = level;
+            pushData = K_DEPARTURE;
+          } else if (!refuseAll && waiting < waitingPositions) {
+            admitted++;
+            this.waited++;
+            waiting++;
+            if (this.queueTail - this.queueHead === this.queueArrival.length) this.growQueue();
+            const id = this.queueTail++;
+            const pos = id % this.queueArrival.length;
+            this.queueArrival[pos] = t;
+            this.queueAlive[pos] = 1;
+            if (patience) {
+              pushTime = t + draw(patience, this.patienceRng);
+              pushData = id * 4 + K_ABANDON;
+            }
+          } else {
+            blockedAttempts++;
+            if (fresh) blockedFirst++;
+            if (retryDelay && attempt < maxAttempts && rr.next() < persistence) {
+              orbit++;
+              pushTime = t + draw(retryDelay, rr);
+              pushData = attempt * 4 + K_RETRY;
+            } else lost++;
           }
-          this.push(t + h, K_DEPARTURE);
-          continue;
+          if (pushData < 0) continue;
         }
-        if (!refuseAll && waiting < waitingPositions) {
-          admitted++;
-          this.waited++;
-          waiting++;
-          if (this.queueTail - this.queueHead === this.queueArrival.length) this.growQueue();
-          const id = this.queueTail++;
-          const pos = id % this.queueArrival.length;
-          this.queueArrival[pos] = t;
-          this.queueAlive[pos] = 1;
-          if (patience) this.push(t + patience.sample(this.patienceRng), id * 4 + K_ABANDON);
-          continue;
+        if (served) {
+          const h = draw(holding, hr);
+          if (servedLevel >= 0) {
+            holdingDraws++;
+            holdingSum += h;
+            if (servedLevel >= nearLevel) {
+              nearDraws++;
+              nearSum += h;
+            }
+          }
+          pushTime = t + h;
         }
-        blockedAttempts++;
-        if (fresh) blockedFirst++;
-        if (retryDelay && attempt < maxAttempts && rr.next() < persistence) {
-          orbit++;
-          this.push(t + retryDelay.sample(rr), attempt * 4 + K_RETRY);
-        } else lost++;
+        // Insert (pushTime, pushData): sift up from the end.
+        if (hn === ht.length) {
+          this.growHeap(hn);
+          ht = this.heapTime;
+          hd = this.heapData;
+        }
+        let i = hn++;
+        while (i > 0) {
+          const parent = (i - 1) >> 1;
+          const pt = ht[parent];
+          if (pt <= pushTime) break;
+          ht[i] = pt;
+          hd[i] = hd[parent];
+          i = parent;
+        }
+        ht[i] = pushTime;
+        hd[i] = pushData;
       }
-      if (source === 2) {
-        if (this.measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
+      if (source === 2 && !primary) {
+        if (measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
           this.halfTaken = true;
           this.halfTime = t - this.measureStart;
           this.halfBusyIntegral = busyIntegral;
           this.halfOrbitIntegral = orbitIntegral;
           this.halfQueueIntegral = queueIntegral;
         }
-        nextArrival = this.freshArrivalAfter(t, busy, orbit, waiting);
+        // Poisson-timed and renewal arrivals inline (a call would return the instant boxed).
+        if (poissonTimed) nextArrival = t + (zig ? zigExponential(ar) : -Math.log(ar.next())) / rate;
+        else if (kind === A_RENEWAL) {
+          const gap = draw(interarrival!, ar);
+          if (measuring && busy + waiting >= nearLevel) this.nearRefusalGapDeviation += gap / interarrivalMean - 1;
+          nextArrival = t + gap;
+        }
+        else nextArrival = this.freshArrivalAfter(t, busy, orbit, waiting);
       } else if (finite) nextArrival = this.freshArrivalAfter(t, busy, orbit, waiting); // idle count changed; the clock is memoryless
     }
+    this.heapSize = hn;
     this.t = t;
     this.busy = busy;
     this.orbit = orbit;

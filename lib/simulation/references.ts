@@ -103,6 +103,131 @@ function markovModel(s: Scenario, f: Facts): tt.MarkovSystemModel | undefined {
   };
 }
 
+/** The waiting-room values of a result as reference fields. */
+function waitingValues(r: { lossProbability: number; waitingProbability: number; meanWait: number; meanQueueLength: number; abandonmentProbability: number }): Values {
+  return {
+    lossProbability: r.lossProbability,
+    waitingProbability: r.waitingProbability,
+    meanWait: r.meanWait,
+    meanWaiting: r.meanQueueLength,
+    abandonmentProbability: r.abandonmentProbability,
+  };
+}
+
+/** Retrial parameters the exact chains need: exponential delays, no attempt limit, exponential patience if any. */
+function exactRetrials(s: Scenario, f: Facts): { persistence: number; meanRetryDelay: number; meanPatience?: number } | undefined {
+  if (!f.retrying) return undefined;
+  const r = s.retrials!;
+  if (r.delay.law !== "exponential" || r.maxAttempts !== undefined || !exponentialOrUndefined(s.patience)) return undefined;
+  return { persistence: r.persistence, meanRetryDelay: tt.lawMean(r.delay), meanPatience: s.patience ? tt.lawMean(s.patience) : undefined };
+}
+
+/** Values of a retrial chain's result as reference fields. */
+type RetrialMeasures = Pick<
+  tt.OrbitChainResult,
+  | "firstAttemptBlocking"
+  | "timeCongestion"
+  | "carriedTraffic"
+  | "lossProbability"
+  | "attemptCongestion"
+  | "attemptsPerCall"
+  | "meanOrbit"
+  | "neglectedMass"
+  | "batchCongestion"
+  | "waitingProbability"
+  | "meanWait"
+  | "meanQueueLength"
+  | "abandonmentProbability"
+>;
+
+function retrialValues(r: RetrialMeasures, f: Facts): Values {
+  const values: Values = {
+    callCongestion: r.firstAttemptBlocking,
+    timeCongestion: r.timeCongestion,
+    carriedTraffic: r.carriedTraffic,
+    lossProbability: r.lossProbability,
+    attemptCongestion: r.attemptCongestion,
+    attemptsPerCall: r.attemptsPerCall,
+    meanRetrying: r.meanOrbit,
+    truncationBound: r.neglectedMass,
+  };
+  if (r.batchCongestion !== undefined) values.batchCongestion = r.batchCongestion;
+  if (f.waiting) Object.assign(values, waitingValues(r));
+  return values;
+}
+
+const orbitLimits = `interactive up to states × lower band × upper band = ${tt.INTERACTIVE_ORBIT_WORK} at the first orbit cap; at most ${tt.MAX_ORBIT_BAND} band entries; the orbit is truncated where the neglected mass is below ${tt.TRUNCATION_BOUND}`;
+
+/** Retrials on MMPP (and on-off) arrivals: the exact chain on (phase, calls, orbit). */
+const mmppRetrialRule: ReferenceRule = {
+  method: "MMPP retrial exact chain",
+  limits: orbitLimits,
+  interactiveWork: tt.INTERACTIVE_ORBIT_WORK,
+  work: (s, f) => {
+    const m = mmppOf(s.arrivals);
+    const r = exactRetrials(s, f);
+    return m && r ? tt.mmppRetrialWork({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, ...r, ...m }) : 0;
+  },
+  applies: (s, f) =>
+    mmppOf(s.arrivals) && exactRetrials(s, f)
+      ? {
+          exact: f.exponentialHolding,
+          assumptions: `Markov-modulated Poisson fresh calls, exponential holding, ${f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, ` : ""}refused calls retry with the persistence after exponential delays, no attempt limit`,
+        }
+      : undefined,
+  compute: (s, f) => retrialValues(tt.mmppRetrialSystem({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, ...exactRetrials(s, f)!, ...mmppOf(s.arrivals)! }), f),
+};
+
+/** Retrials on renewal arrivals: the embedded chain at arrivals on (calls, orbit). */
+const renewalRetrialRule: ReferenceRule = {
+  method: "renewal retrial embedded chain",
+  limits: `interactive up to 3 S² × series terms + S³ = ${tt.INTERACTIVE_RENEWAL_RETRIAL_WORK} (S states, first two orbit caps); N, Q <= 200, at most 3000 states; interarrival laws whose series needs more than 20 000 terms (long tails) are refused`,
+  interactiveWork: tt.INTERACTIVE_RENEWAL_RETRIAL_WORK,
+  work: (s, f) => {
+    const r = exactRetrials(s, f);
+    return s.arrivals.process === "renewal" && r ? tt.renewalRetrialWork(f.n, s.waitingPositions, s.arrivals.interarrival, f.h, r.persistence, r.meanRetryDelay) : 0;
+  },
+  applies: (s, f) =>
+    s.arrivals.process === "renewal" && exactRetrials(s, f)
+      ? {
+          exact: f.exponentialHolding,
+          assumptions: `renewal fresh calls (${s.arrivals.interarrival.law} interarrival law), exponential holding, ${f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, ` : ""}refused calls retry with the persistence after exponential delays, no attempt limit`,
+        }
+      : undefined,
+  compute: (s, f) => {
+    if (s.arrivals.process !== "renewal") throw new Error("not renewal arrivals");
+    const r = tt.renewalRetrialSystem({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, interarrival: s.arrivals.interarrival, ...exactRetrials(s, f)! });
+    return retrialValues(r, f);
+  },
+};
+
+/** Retrials on Poisson batches: the exact chain on (calls, orbit) with binomial orbit jumps. */
+const batchRetrialRule: ReferenceRule = {
+  method: "batch retrial exact chain",
+  limits: orbitLimits,
+  interactiveWork: tt.INTERACTIVE_ORBIT_WORK,
+  work: (s, f) => {
+    const r = exactRetrials(s, f);
+    if (s.arrivals.process !== "batch" || !r) return 0;
+    return tt.batchRetrialWork({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, traffic: f.traffic, batchSize: s.arrivals.batchSize, admission: s.arrivals.admission, ...r });
+  },
+  applies: (s, f) =>
+    s.arrivals.process === "batch" && exactRetrials(s, f)
+      ? {
+          exact: f.exponentialHolding,
+          assumptions: `Poisson batches (${s.arrivals.batchSize.law} sizes), ${s.arrivals.admission} admission, exponential holding, ${f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, ` : ""}each refused call retries with the persistence after exponential delays, no attempt limit`,
+        }
+      : undefined,
+  compute: (s, f) => {
+    if (s.arrivals.process !== "batch") throw new Error("not batch arrivals");
+    const a = s.arrivals;
+    return retrialValues(
+      tt.batchRetrialSystem({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, traffic: f.traffic, batchSize: a.batchSize, admission: a.admission, ...exactRetrials(s, f)! }),
+      f,
+    );
+  },
+};
+
 function peakedRule(method: "Wilkinson equivalent random" | "Hayward"): ReferenceRule {
   return {
     method,
@@ -225,11 +350,7 @@ const periodicQueueRule: ReferenceRule = {
       callCongestion: r.callCongestion,
       timeCongestion: r.timeCongestion,
       carriedTraffic: r.carriedTraffic,
-      lossProbability: r.lossProbability,
-      waitingProbability: r.waitingProbability,
-      meanWait: r.meanWait,
-      meanWaiting: r.meanQueueLength,
-      abandonmentProbability: r.abandonmentProbability,
+      ...waitingValues(r),
       truncationBound: r.errorBound,
       segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, callCongestion: g.callCongestion, timeCongestion: g.timeCongestion })),
     };
@@ -279,6 +400,25 @@ export const referenceRules: ReferenceRule[] = [
     },
   },
   {
+    method: "GI/M/N/N+Q embedded chain",
+    limits: `interactive up to (N + Q + 1)² × series terms = ${tt.INTERACTIVE_RENEWAL_QUEUE_WORK}; at most ${tt.MAX_RENEWAL_QUEUE_WORK}; N, Q <= 2000`,
+    interactiveWork: tt.INTERACTIVE_RENEWAL_QUEUE_WORK,
+    work: (s, f) =>
+      s.arrivals.process === "renewal" ? tt.renewalQueueWork(f.n, s.waitingPositions, s.arrivals.interarrival, f.h, s.patience ? tt.lawMean(s.patience) : undefined) : 0,
+    applies: (s, f) =>
+      s.arrivals.process === "renewal" && f.waiting && !f.retrying && exponentialOrUndefined(s.patience)
+        ? {
+            exact: f.exponentialHolding,
+            assumptions: `renewal arrivals (${s.arrivals.interarrival.law} interarrival law), exponential holding, FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, refused calls cleared`,
+          }
+        : undefined,
+    compute: (s, f) => {
+      const a = s.arrivals as Extract<Scenario["arrivals"], { process: "renewal" }>;
+      const r = tt.renewalQueueSystem({ servers: f.n, waitingPositions: s.waitingPositions, interarrival: a.interarrival, meanHolding: f.h, meanPatience: s.patience ? tt.lawMean(s.patience) : undefined });
+      return { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic, ...waitingValues(r), truncationBound: r.seriesError };
+    },
+  },
+  {
     method: "MMPP/M/N/N exact chain",
     limits: `interactive up to (N + 1) × phases³ = ${tt.INTERACTIVE_MMPP_WORK}; phases × (N + 1) <= ${tt.MAX_MMPP_STATES}`,
     interactiveWork: tt.INTERACTIVE_MMPP_WORK,
@@ -312,16 +452,7 @@ export const referenceRules: ReferenceRule[] = [
         meanHolding: f.h,
         meanPatience: s.patience ? tt.lawMean(s.patience) : undefined,
       });
-      return {
-        callCongestion: r.callCongestion,
-        timeCongestion: r.timeCongestion,
-        carriedTraffic: r.carriedTraffic,
-        lossProbability: r.lossProbability,
-        waitingProbability: r.waitingProbability,
-        meanWait: r.meanWait,
-        meanWaiting: r.meanQueueLength,
-        abandonmentProbability: r.abandonmentProbability,
-      };
+      return { callCongestion: r.callCongestion, timeCongestion: r.timeCongestion, carriedTraffic: r.carriedTraffic, ...waitingValues(r) };
     },
   },
   {
@@ -361,20 +492,34 @@ export const referenceRules: ReferenceRule[] = [
   },
   {
     method: "overflow network exact chain",
-    limits: `interactive while (N + 1) × K³ <= ${INTERACTIVE_OVERFLOW_WORK} (K = Π(nᵢ + 1)); direct solve up to ${tt.MAX_OVERFLOW_WORK}, Gauss–Seidel beyond, up to ${tt.MAX_OVERFLOW_STATES} states`,
+    limits: `interactive while (N + Q + 1) × K³ <= ${INTERACTIVE_OVERFLOW_WORK} (K = Π(nᵢ + 1)); direct solve up to ${tt.MAX_OVERFLOW_WORK}, Gauss–Seidel beyond (loss only), up to ${tt.MAX_OVERFLOW_STATES} states`,
     interactiveWork: INTERACTIVE_OVERFLOW_WORK,
-    work: (s, f) => (s.arrivals.process === "overflow" ? (f.n + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 : 0),
+    work: (s, f) => (s.arrivals.process === "overflow" ? (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 : 0),
     applies: (s, f) =>
-      s.arrivals.process === "overflow" && !f.waiting
+      s.arrivals.process === "overflow" && (!f.waiting || (!f.retrying && exponentialOrUndefined(s.patience)))
         ? {
             exact: f.exponentialHolding && !f.retrying,
-            assumptions: "Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, blocked calls cleared",
+            assumptions: `Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, ${
+              f.waiting ? `FIFO waiting with Q positions at the group under study${s.patience ? ", exponential patience" : ""}, refused calls cleared` : "blocked calls cleared"
+            }`,
           }
         : undefined,
     compute: (s, f) => {
       const a = s.arrivals as Extract<Scenario["arrivals"], { process: "overflow" }>;
-      const o = tt.overflowLossSystem({ primaries: a.primaries, servers: f.n });
-      return { callCongestion: o.blocking, timeCongestion: o.timeCongestion, carriedTraffic: o.overflowOffered - o.overflowLost };
+      const o = tt.overflowLossSystem({
+        primaries: a.primaries,
+        servers: f.n,
+        waitingPositions: s.waitingPositions,
+        // The chain runs in mean holding times.
+        meanPatience: f.waiting && s.patience ? tt.lawMean(s.patience) / f.h : undefined,
+      });
+      const values: Values = { callCongestion: o.blocking, timeCongestion: o.timeCongestion, carriedTraffic: o.overflowOffered - o.overflowLost };
+      if (o.waiting)
+        Object.assign(values, waitingValues(o.waiting), {
+          carriedTraffic: o.overflowOffered * (1 - o.waiting.lossProbability),
+          meanWait: o.waiting.meanWait * f.h,
+        });
+      return values;
     },
   },
   {
@@ -416,6 +561,9 @@ export const referenceRules: ReferenceRule[] = [
       return values;
     },
   },
+  mmppRetrialRule,
+  batchRetrialRule,
+  renewalRetrialRule,
   peakedRule("Wilkinson equivalent random"),
   peakedRule("Hayward"),
   {
@@ -467,17 +615,18 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
       "patience is not exponential: the waiting calls' elapsed waits are part of the state; the known exact M/M/N+G solution (Baccelli & Hébuterne 1981) needs an unlimited waiting room, not Q positions",
   },
   {
-    when: (s, f) => s.arrivals.process === "renewal" && (f.retrying || f.waiting),
+    when: (s, f) => s.arrivals.process === "renewal" && f.retrying,
     reason:
-      "renewal arrivals with a waiting room or retrials: the time since the last arrival is part of the state (no finite Markov chain for a general interarrival law; GI/M/N/N+Q by an embedded chain is not implemented)",
+      "renewal arrivals with retrials beyond the embedded chain's reach: it is dense in (calls, orbit) (N, Q <= 200, 3000 states) and sums the chain between arrivals over the interarrival law term by term, so long-tailed laws (lognormal, Weibull, Pareto, hyperexponential, gamma with cv > 1 against fast retries) need more than its 20 000 terms; an implementation limit, not a mathematical one",
   },
   {
-    when: (s, f) => f.retrying && (mmppOf(s.arrivals) !== undefined || s.arrivals.process === "batch" || s.arrivals.process === "overflow"),
-    reason: "retrials on top of MMPP, batch or overflow arrivals: a three-dimensional chain (arrival phase, calls, orbit); not implemented",
+    when: (s, f) => f.retrying && s.arrivals.process === "overflow",
+    reason:
+      "retrials on overflow arrivals: the exact chain on (primary groups' states, calls, orbit) exists and is finite per orbit level, but it is not implemented (the overflow chain alone has up to 200 000 states)",
   },
   {
-    when: (s, f) => s.arrivals.process === "overflow" && f.waiting,
-    reason: "overflow traffic with a waiting room: the chain on (primary states, calls in the group) is not implemented",
+    when: (s, f) => s.arrivals.process === "overflow" && f.waiting && (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 > tt.MAX_OVERFLOW_WORK,
+    reason: `overflow traffic with a waiting room beyond the direct solve's size ((N + Q + 1) × Π(nᵢ + 1)³ > ${tt.MAX_OVERFLOW_WORK}): the exact chain exists, but only the loss system has the iterative solver for larger networks; not implemented`,
   },
   {
     when: (s, f) => s.arrivals.process === "time-varying" && f.retrying,
@@ -485,7 +634,8 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
       "retrials under a time-varying load: the periodic forward equations of the two-dimensional chain (busy servers, calls retrying), truncated in the orbit, would give it; not implemented",
   },
   {
-    when: (s, f) => s.arrivals.process === "time-varying" && f.waiting && !f.retrying && s.patience === undefined,
+    when: (s, f) =>
+      s.arrivals.process === "time-varying" && f.waiting && !f.retrying && s.patience === undefined && !Number.isFinite(tt.periodicQueueWork(f.n, s.waitingPositions, s.arrivals.profile, f.h)),
     reason:
       "waiting positions without patience under a time-varying load that keeps the waiting room overloaded for most of the cycle: the periodic solution exists, but the cycle map has no contraction the method can bound, so no value with a stated error is given (give callers a patience, or fewer waiting positions)",
   },

@@ -26,6 +26,10 @@
  *   patienceQueue / engsetQueue / retrialServers / erlangCServers / engsetServers / mmppQueueSystem
  *   streamPeakedness({ stream, meanHolding?, servers? }), timeVaryingLoss({ servers, profile, meanHolding? })
  *   periodicLossSystem({ servers, profile, meanHolding?, tolerance? }): PeriodicLossResult   // exact M(t)/M/N/N
+ *   renewalQueueSystem({ servers, waitingPositions?, interarrival, meanHolding?, meanPatience? }): RenewalQueueResult   // GI/M/N/N+Q
+ *   renewalRetrialSystem({ servers, waitingPositions?, interarrival, persistence, meanRetryDelay, meanPatience?, meanHolding? }): RenewalRetrialResult
+ *   mmppRetrialSystem({ servers, waitingPositions?, rates, switching, persistence, meanRetryDelay, meanPatience?, meanHolding? }): OrbitChainResult
+ *   batchRetrialSystem({ servers, waitingPositions?, traffic, batchSize, admission, persistence, meanRetryDelay, meanPatience?, meanHolding? }): OrbitChainResult
  *   periodicQueueSystem({ servers, waitingPositions, profile, meanHolding?, meanPatience?, tolerance? }): PeriodicQueueResult   // exact M(t)/M/N/N+Q(+M)
  *   overflowLossSystem({ primaries: [{ traffic, servers }], servers }): OverflowLossResult
  *   kaufmanRoberts({ capacity, classes: [{ traffic, bandwidth }] }): KaufmanRobertsResult
@@ -196,6 +200,36 @@ export {
   type PeriodicQueueResult,
   type PeriodicQueueSegment,
 } from "./periodic-loss";
+export {
+  renewalQueueInputSchema,
+  renewalQueueSystem,
+  renewalQueueWork,
+  INTERACTIVE_RENEWAL_QUEUE_WORK,
+  MAX_RENEWAL_QUEUE_WORK,
+  type RenewalQueueInput,
+  type RenewalQueueResult,
+} from "./renewal-queue";
+export {
+  renewalRetrialInputSchema,
+  renewalRetrialSystem,
+  renewalRetrialWork,
+  INTERACTIVE_RENEWAL_RETRIAL_WORK,
+  type RenewalRetrialInput,
+  type RenewalRetrialResult,
+} from "./renewal-retrial";
+export {
+  batchRetrialInputSchema,
+  batchRetrialSystem,
+  batchRetrialWork,
+  mmppRetrialInputSchema,
+  mmppRetrialSystem,
+  mmppRetrialWork,
+  INTERACTIVE_ORBIT_WORK,
+  MAX_ORBIT_BAND,
+  type BatchRetrialInput,
+  type MmppRetrialInput,
+  type OrbitChainResult,
+} from "./orbit-chain";
 export {
   overflowLossInputSchema,
   overflowLossSystem,

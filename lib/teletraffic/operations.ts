@@ -48,6 +48,9 @@ import {
 import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
 import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
+import { INTERACTIVE_RENEWAL_QUEUE_WORK, MAX_RENEWAL_QUEUE_WORK, renewalQueueInputSchema, renewalQueueSystem } from "./renewal-queue";
+import { INTERACTIVE_RENEWAL_RETRIAL_WORK, renewalRetrialInputSchema, renewalRetrialSystem } from "./renewal-retrial";
+import { batchRetrialInputSchema, batchRetrialSystem, INTERACTIVE_ORBIT_WORK, MAX_ORBIT_BAND, mmppRetrialInputSchema, mmppRetrialSystem } from "./orbit-chain";
 import { kaufmanRoberts, kaufmanRobertsInputSchema } from "./multi-rate";
 
 /** "erlang-b" takes exactly two of servers, traffic, target and dispatches on which are present. */
@@ -90,6 +93,7 @@ function operation<S extends z.ZodType>(summary: string, input: S, run: (value: 
   return { summary, input, evaluate: (value) => ({ ...run(parseInput(input, value) as z.input<S>) }), ...(limits ? { limits } : {}) };
 }
 
+const orbitLimits = `interactive up to states × lower band × upper band = ${INTERACTIVE_ORBIT_WORK} at the first orbit cap (32); at most ${MAX_ORBIT_BAND} band entries`;
 const markovLimits = `interactive up to about ${INTERACTIVE_MARKOV_STATES} states (orbit levels × (N + Q + 1)); at most ${MAX_MARKOV_STATES}`;
 
 /** Every analytic operation of the API and CLI, keyed by its kebab-case name. */
@@ -114,6 +118,18 @@ export const analyticOperations = {
     markovLimits,
   ),
   "retrial-servers": operation("smallest N for a target loss (or first-attempt blocking) with retrials, exact model", retrialServersInputSchema, retrialServers, `each of the O(log N) evaluations as retrial-loss: ${markovLimits}`),
+  "mmpp-retrial": operation(
+    "retrials on Markov-modulated Poisson arrivals (optional waiting room and patience): exact first-attempt blocking, loss, attempts, orbit",
+    mmppRetrialInputSchema,
+    mmppRetrialSystem,
+    orbitLimits,
+  ),
+  "batch-retrial": operation(
+    "retrials on Poisson batches of any size law, partial or all-or-nothing (optional waiting room and patience): exact per call and per batch",
+    batchRetrialInputSchema,
+    batchRetrialSystem,
+    orbitLimits,
+  ),
   "patience-queue": operation("M/M/N/N+Q with exponential patience: loss, waiting, mean wait, abandonment", patienceQueueInputSchema, patienceQueue, markovLimits),
   "engset-queue": operation("Engset with waiting positions (and optional patience): exact finite-source loss–delay system", engsetQueueInputSchema, engsetQueue, markovLimits),
   "erlang-c-servers": operation("Erlang C sizing: smallest N for a target probability of waiting, mean wait, or P(W > t)", erlangCServersInputSchema, erlangCServers, "O(N); N <= 10^7"),
@@ -123,6 +139,18 @@ export const analyticOperations = {
     renewalLossInputSchema,
     renewalLossSystem,
     `interactive up to N × transform cost ${INTERACTIVE_RENEWAL_WORK} (closed forms cost 1, lognormal/Weibull/Pareto 400, empirical one per sample); at most ${MAX_RENEWAL_WORK}`,
+  ),
+  "renewal-queue": operation(
+    "GI/M/N/N+Q with renewal arrivals, any interarrival law, optional exponential patience: exact loss, waiting, mean wait (embedded chain at arrivals)",
+    renewalQueueInputSchema,
+    renewalQueueSystem,
+    `interactive up to (N + Q + 1)² × series terms = ${INTERACTIVE_RENEWAL_QUEUE_WORK} (terms estimated from the law's reach, or conservatively from the time to empty); at most ${MAX_RENEWAL_QUEUE_WORK}`,
+  ),
+  "renewal-retrial": operation(
+    "retrials on renewal arrivals, any interarrival law with a short enough tail (optional waiting room and patience): exact first-attempt blocking, loss, attempts, orbit",
+    renewalRetrialInputSchema,
+    renewalRetrialSystem,
+    `interactive up to 3 S² × series terms + S³ = ${INTERACTIVE_RENEWAL_RETRIAL_WORK} over the first two orbit caps (S states); N, Q <= 200, at most 3000 states; long-tailed laws (series beyond 20 000 terms) refused`,
   ),
   "mmpp-loss": operation("Markov-modulated Poisson arrivals (1–16 phases) on N servers: exact call and time congestion", mmppLossInputSchema, mmppLossSystem, `interactive up to (N + 1) × phases³ = ${INTERACTIVE_MMPP_WORK}; phases × (N + 1) <= 200 000`),
   "mmpp-queue": operation("Markov-modulated Poisson arrivals with waiting positions (and optional patience): exact loss, waiting and abandonment", mmppQueueInputSchema, mmppQueueSystem, `interactive up to (N + Q + 1) × phases³ = ${INTERACTIVE_MMPP_WORK}; phases × (N + Q + 1) <= 200 000`),

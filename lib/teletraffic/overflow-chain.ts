@@ -24,16 +24,22 @@ export const overflowLossInputSchema = z
       .max(8)
       .describe("primary groups (1..8) whose overflow is offered to the final group"),
     servers: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).describe("servers N of the final (overflow) group"),
+    waitingPositions: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).default(0).describe("waiting positions Q (FIFO) at the final group, default 0"),
+    meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a call waiting at the final group, in mean holding times; default: waits for ever"),
   })
   .superRefine((v, ctx) => {
     const k = v.primaries.reduce((p, g) => p * (g.servers + 1), 1);
-    const states = k * (v.servers + 1);
+    const states = k * (v.servers + v.waitingPositions + 1);
     if (states > MAX_OVERFLOW_STATES) {
-      ctx.addIssue({ code: "custom", path: ["servers"], message: `state space Π(n_i + 1) × (N + 1) = ${states} exceeds ${MAX_OVERFLOW_STATES}` });
+      ctx.addIssue({ code: "custom", path: ["servers"], message: `state space Π(n_i + 1) × (N + Q + 1) = ${states} exceeds ${MAX_OVERFLOW_STATES}` });
     }
+    if (v.meanPatience !== undefined && v.waitingPositions === 0) ctx.addIssue({ code: "custom", path: ["meanPatience"], message: "needs waitingPositions > 0" });
+    // Gauss–Seidel (the fallback for large phase spaces) handles the loss system only.
+    if (v.waitingPositions > 0 && (v.servers + v.waitingPositions + 1) * k ** 3 > MAX_OVERFLOW_WORK)
+      ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: `with waiting positions only the direct solve is offered: (N + Q + 1) × Π(n_i + 1)³ must be <= ${MAX_OVERFLOW_WORK}` });
   })
   .describe("overflow network: primary groups with own Poisson traffic, overflow offered to one final group, exponential holding with a common mean");
-export type OverflowLossInput = z.infer<typeof overflowLossInputSchema>;
+export type OverflowLossInput = z.input<typeof overflowLossInputSchema>;
 
 export interface OverflowLossResult {
   method: string;
@@ -55,6 +61,17 @@ export interface OverflowLossResult {
   equivalentRandomTraffic: number;
   equivalentRandomServers: number;
   haywardBlocking: number;
+  /** With waiting positions at the final group (Q > 0): measures of the overflow calls admitted there. */
+  waiting?: {
+    waitingPositions: number;
+    /** share of admitted overflow calls that wait, their mean wait (in mean holding times), abandonment */
+    waitingProbability: number;
+    meanWait: number;
+    meanQueueLength: number;
+    abandonmentProbability: number;
+    /** overflow calls refused or abandoning / overflow calls offered */
+    lossProbability: number;
+  };
 }
 
 /**
@@ -65,7 +82,9 @@ export interface OverflowLossResult {
  * and Hayward are given for the same combined stream (summed Riordan moments) for comparison.
  */
 export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult {
-  const { primaries, servers: n } = parseInput(overflowLossInputSchema, input);
+  const { primaries, servers: n, waitingPositions: q, meanPatience } = parseInput(overflowLossInputSchema, input);
+  const capacity = n + q;
+  const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
   const sizes = primaries.map((p) => p.servers + 1);
   const k = sizes.reduce((a, b) => a * b, 1);
   const stride: number[] = [];
@@ -103,10 +122,11 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   }
   let pi: Float64Array;
   let solver: string;
-  if ((n + 1) * k ** 3 <= MAX_OVERFLOW_WORK) {
+  if ((capacity + 1) * k ** 3 <= MAX_OVERFLOW_WORK) {
     const phaseRates = new Float64Array(k * k);
     for (const [from, to, rate] of edges) phaseRates[from * k + to] += rate;
-    pi = solveEnvironmentLossChain(n, k, phaseRates, up, 1);
+    // Level = calls at the final group (0..N+Q); those beyond N wait and abandon at rate α.
+    pi = solveEnvironmentLossChain(capacity, k, phaseRates, up, 1, (j) => Math.min(j, n) + Math.max(0, j - n) * alpha);
     solver = "direct level reduction";
   } else {
     // start from the exact primary marginal (product of truncated Poisson) times a Poisson guess for the final group
@@ -130,13 +150,20 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   let offered = 0;
   let lost = 0;
   let timeCongestion = 0;
+  let toWait = 0;
+  let queue = 0;
   const perOffered = new Float64Array(primaries.length);
   const perLost = new Float64Array(primaries.length);
   for (let phase = 0; phase < k; phase++) {
     let marginal = 0;
-    for (let j = 0; j <= n; j++) marginal += pi[j * k + phase];
-    const full = pi[n * k + phase];
-    timeCongestion += full;
+    for (let j = 0; j <= capacity; j++) {
+      const x = pi[j * k + phase];
+      marginal += x;
+      if (j >= n) timeCongestion += x;
+      if (j >= n && j < capacity) toWait += x * up[phase];
+      queue += Math.max(0, j - n) * x;
+    }
+    const full = pi[capacity * k + phase];
     offered += marginal * up[phase];
     lost += full * up[phase];
     primaries.forEach((p, i) => {
@@ -168,12 +195,24 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   const erLost = er.traffic * erlangBUnchecked(er.servers + n, er.traffic);
   const hayward = erlangBUnchecked(n / peakedness, mean / peakedness);
   if (!(offered > 0)) throw inputError("primaries", "no traffic overflows to the final group");
+  const admitted = offered - lost;
+  const waiting =
+    q > 0
+      ? {
+          waitingPositions: q,
+          waitingProbability: admitted > 0 ? toWait / admitted : 0,
+          meanWait: admitted > 0 ? queue / admitted : 0,
+          meanQueueLength: queue,
+          abandonmentProbability: admitted > 0 ? (alpha * queue) / admitted : 0,
+          lossProbability: Math.min(1, (lost + alpha * queue) / offered),
+        }
+      : undefined;
   return assertFiniteResult(
     {
-      method: `exact overflow CTMC (primaries as environment), ${solver}; equivalent random and Hayward beside it`,
+      method: `exact overflow CTMC (primaries as environment${q > 0 ? `, ${q} waiting positions at the final group${alpha > 0 ? " with exponential patience" : ""}` : ""}), ${solver}; equivalent random and Hayward beside it${q > 0 ? " (for the loss system, as a comparison only)" : ""}`,
       servers: n,
       primaryStates: k,
-      states: k * (n + 1),
+      states: k * (capacity + 1),
       overflowOffered: offered,
       overflowLost: lost,
       blocking: lost / offered,
@@ -191,6 +230,7 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
       equivalentRandomTraffic: er.traffic,
       equivalentRandomServers: er.servers,
       haywardBlocking: hayward,
+      ...(waiting ? { waiting } : {}),
     },
     "overflowLossSystem",
   );

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { assertFiniteResult, parseInput, TeletrafficConvergenceError } from "./errors";
 import { MAX_TRAFFIC } from "./erlang-b";
+import type { MmppQueueResult } from "./mmpp";
 import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, timeVaryingHoldingField, timeVaryingServersField } from "./time-varying";
 
 /**
@@ -600,24 +601,10 @@ export interface PeriodicQueueSegment {
   meanQueueLength: number;
 }
 
-export interface PeriodicQueueResult {
-  method: string;
-  servers: number;
-  waitingPositions: number;
+/** The measures of the stationary queue (as mmppQueueSystem), over the cycle, with the segments and the error bound. */
+export interface PeriodicQueueResult extends MmppQueueResult {
   cycle: number;
-  offeredTraffic: number;
   segments: PeriodicQueueSegment[];
-  /** Over the cycle: arrivals refused / arrivals. */
-  callCongestion: number;
-  timeCongestion: number;
-  carriedTraffic: number;
-  /** Over the cycle: share of admitted calls that wait, mean wait of admitted calls (Little's law over a period), abandonment. */
-  waitingProbability: number;
-  meanWait: number;
-  meanQueueLength: number;
-  abandonmentProbability: number;
-  /** Share of arrivals refused or abandoning. */
-  lossProbability: number;
   /** Bound on the absolute error of every time-average probability and mean count (ratios of them inherit it). */
   errorBound: number;
   tolerance: number;

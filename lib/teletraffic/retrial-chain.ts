@@ -59,6 +59,53 @@ export interface MarkovSystemMeasures {
   abandonmentProbability: number;
 }
 
+/** The measures every retrial chain reports, from its stationary flows (shared by orbit-chain.ts and renewal-retrial.ts). */
+export type RetrialRateMeasures = Pick<
+  MarkovSystemMeasures,
+  | "firstAttemptBlocking"
+  | "attemptCongestion"
+  | "attemptsPerCall"
+  | "lossProbability"
+  | "meanOrbit"
+  | "carriedTraffic"
+  | "waitingProbability"
+  | "meanWait"
+  | "meanQueueLength"
+  | "abandonmentProbability"
+>;
+
+/**
+ * Measures from flows (rates per unit time) of a retrial chain in equilibrium: fresh and retry
+ * attempts and those refused, calls lost for good, attempts admitted (and of them, to wait), and
+ * the time averages of orbit, busy servers and queue. Waits by Little's law over admitted attempts.
+ */
+export function retrialRateMeasures(f: {
+  freshRate: number;
+  freshRefused: number;
+  retryRate: number;
+  retryRefused: number;
+  lostRate: number;
+  admitted: number;
+  admittedToWait: number;
+  abandonRate: number;
+  meanOrbit: number;
+  busy: number;
+  queue: number;
+}): RetrialRateMeasures {
+  return {
+    firstAttemptBlocking: f.freshRefused / f.freshRate,
+    attemptCongestion: (f.freshRefused + f.retryRefused) / (f.freshRate + f.retryRate),
+    attemptsPerCall: (f.freshRate + f.retryRate) / f.freshRate,
+    lossProbability: Math.min(1, f.lostRate / f.freshRate),
+    meanOrbit: f.meanOrbit,
+    carriedTraffic: f.busy,
+    waitingProbability: f.admitted > 0 ? f.admittedToWait / f.admitted : 0,
+    meanWait: f.admitted > 0 ? f.queue / f.admitted : 0,
+    meanQueueLength: f.queue,
+    abandonmentProbability: f.admitted > 0 ? f.abandonRate / f.admitted : 0,
+  };
+}
+
 export const TRUNCATION_BOUND = 1e-12;
 /** Largest chain (levels × (K + 1)) solved at all: memory for the R rows (8 bytes each). */
 export const MAX_MARKOV_STATES = 5_000_000;
@@ -244,18 +291,9 @@ function measures(model: MarkovSystemModel, pi: Float64Array, cap: number, negle
     orbitCap: cap,
     neglectedMass,
     freshRate,
-    firstAttemptBlocking: freshRefused / freshRate,
     timeCongestion,
     fullCongestion: full,
-    attemptCongestion: (freshRefused + retryRefused) / (freshRate + retryRate),
-    attemptsPerCall: (freshRate + retryRate) / freshRate,
-    lossProbability: Math.min(1, lostRate / freshRate),
-    meanOrbit,
-    carriedTraffic: busy,
-    waitingProbability: admitted > 0 ? admittedToWait / admitted : 0,
-    meanWait: admitted > 0 ? queue / admitted : 0,
-    meanQueueLength: queue,
-    abandonmentProbability: admitted > 0 ? abandonRate / admitted : 0,
+    ...retrialRateMeasures({ freshRate, freshRefused, retryRate, retryRefused, lostRate, admitted, admittedToWait, abandonRate, meanOrbit, busy, queue }),
   };
 }
 

@@ -212,24 +212,40 @@ export function transformOf(law: Law): TransformLogs {
         },
       };
     }
+    case "lognormal":
+    case "weibull":
+    case "pareto": {
+      const u = smoothSubstitution(law);
+      return numericalLogs(lawMean(law), u.logDensity, u.value, 0, 1);
+    }
+  }
+}
+
+/**
+ * The change of variable that makes the laws without a closed-form transform smooth and unimodal
+ * on the real line: X = value(t), t with log-density logDensity (shared with the mixed Poisson
+ * probabilities of renewal-queue.ts).
+ */
+export function smoothSubstitution(law: Extract<Law, { law: "lognormal" | "weibull" | "pareto" }>): { logDensity: (t: number) => number; value: (t: number) => number } {
+  switch (law.law) {
     case "lognormal": {
       // X = exp(m + σ Z), Z standard normal
       const sigma2 = Math.log1p(law.cv * law.cv);
       const sigma = Math.sqrt(sigma2);
       const m = Math.log(law.mean) - sigma2 / 2;
       const logNorm = -0.5 * Math.log(2 * Math.PI);
-      return numericalLogs(law.mean, (z) => logNorm - 0.5 * z * z, (z) => Math.exp(m + sigma * z), 0, 1);
+      return { logDensity: (z) => logNorm - 0.5 * z * z, value: (z) => Math.exp(m + sigma * z) };
     }
     case "weibull": {
       // X = scale E^{1/k}, E = e^t standard exponential: density of t is exp(t − e^t)
       const { shape, scale } = weibullParameters(law);
-      return numericalLogs(lawMean(law), (t) => t - Math.exp(t), (t) => scale * Math.exp(t / shape), 0, 1);
+      return { logDensity: (t) => t - Math.exp(t), value: (t) => scale * Math.exp(t / shape) };
     }
     case "pareto": {
       // X = x_m e^{E/α}, E = e^t standard exponential
       const alpha = law.shape;
       const xm = (law.mean * (alpha - 1)) / alpha;
-      return numericalLogs(law.mean, (t) => t - Math.exp(t), (t) => xm * Math.exp(Math.exp(t) / alpha), 0, 1);
+      return { logDensity: (t) => t - Math.exp(t), value: (t) => xm * Math.exp(Math.exp(t) / alpha) };
     }
   }
 }

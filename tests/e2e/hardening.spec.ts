@@ -233,14 +233,26 @@ test("an expensive evaluation holds nobody else up, and a too-large one is refus
     data: { primaries: [{ traffic: 150, servers: 130 }, { traffic: 100, servers: 0 }], servers: 148 },
     timeout: 60_000,
   });
-  await new Promise((r) => setTimeout(r, 300));
-  // Responsiveness, not speed: a held event loop would answer after seconds.
-  let started = Date.now();
-  expect((await request.get("/api/v1/health")).status()).toBeLessThan(600);
-  expect(Date.now() - started).toBeLessThan(200);
-  started = Date.now();
+  let expensiveDone = false;
+  void expensive.finally(() => (expensiveDone = true));
+  await new Promise((r) => setTimeout(r, 150));
+  // Responsiveness, not speed: a held event loop answers nothing for seconds, so every request made while the
+  // expensive case runs would be slow. The fastest of three answers is compared with 200 ms, so a moment of CPU
+  // contention on this 2-core machine (browser, database, the evaluating thread) cannot fail the test alone.
+  const fastest = async (ask: () => Promise<{ status(): number }>) => {
+    const times: number[] = [];
+    for (let i = 0; i < 3; i++) {
+      const started = Date.now();
+      expect((await ask()).status()).toBeLessThan(300);
+      times.push(Date.now() - started);
+    }
+    return Math.min(...times);
+  };
+  expect(await fastest(() => request.get("/api/v1/health"))).toBeLessThan(200);
+  expect(await fastest(() => reviewer.page.request.post("/api/v1/analytic/erlang-b", { data: { servers: 24, target: 0.02 } }))).toBeLessThan(200);
+  // Measured while the expensive case was still running, or the check above proves nothing.
+  expect(expensiveDone).toBe(false);
   const cheap = await reviewer.page.request.post("/api/v1/analytic/erlang-b", { data: { servers: 24, target: 0.02 } });
-  expect(Date.now() - started).toBeLessThan(200);
   expect((await cheap.json()).result.traffic).toBeCloseTo(16.63, 2); // 24 circuits at 2 %: common practice, no source
   // Finished within the budget (200) or stopped by it (422); either way it held nobody up.
   expect([200, 422]).toContain((await expensive).status());

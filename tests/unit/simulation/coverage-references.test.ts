@@ -2,8 +2,8 @@
 // standardised error (estimate − exact) / SE is Student t with n − 1 degrees of freedom (the
 // replications are i.i.d.; Law 2015, ch. 9), so each check |error| <= t(0.9995, n − 1) SE
 // (expectAgrees) fails with probability 0.001 at a random seed; the seeds are fixed, so every
-// check is deterministic. 29 checks at 0.001: a correct engine passes all at a random seed with
-// probability >= 0.971. Each run is sized so the relative half-width is a few per cent.
+// check is deterministic. 44 checks at 0.001: a correct engine passes all at a random seed with
+// probability >= 0.956. Each run is sized so the relative half-width is a few per cent.
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { describe, expect, it } from "vitest";
 import { parseScenario, runScenario, type ScenarioInput } from "../../../lib/simulation/node";
@@ -77,6 +77,20 @@ describe("seeded runs agree with the new exact references (99.9 % t bound per ch
       [["callCongestion", "callCongestion"], ["abandonmentProbability", "abandonmentProbability"]],
     );
   });
+  it("retrials on on-off (MMPP) arrivals", async () => {
+    await check(
+      { servers: 4, arrivals: { process: "on-off", onRate: 8, meanOn: 1, meanOff: 1 }, holding: exponential(1), retrials: { persistence: 0.6, delay: exponential(0.5) }, run: run(110) },
+      "MMPP retrial exact chain",
+      [["callCongestion", "callCongestion"], ["lossProbability", "lossProbability"], ["attemptsPerCall", "attemptsPerCall"]],
+    );
+  });
+  it("retrials on batches of uniform size 1..3, partial admission", async () => {
+    await check(
+      { servers: 5, arrivals: { process: "batch", rate: 1.5, batchSize: { law: "uniform", min: 1, max: 3 }, admission: "partial" }, holding: exponential(1), retrials: { persistence: 0.6, delay: exponential(0.5) }, run: run(111) },
+      "batch retrial exact chain",
+      [["callCongestion", "callCongestion"], ["lossProbability", "lossProbability"], ["meanRetrying", "meanRetrying"]],
+    );
+  });
   it("time-varying load with waiting positions and exponential patience (periodic N + Q chain)", async () => {
     // Horizon and warm-up are whole cycles (4.5), so each replication averages whole cycles of the periodic regime.
     await check(
@@ -90,6 +104,27 @@ describe("seeded runs agree with the new exact references (99.9 % t bound per ch
       },
       "M(t)/M/N/N+Q periodic exact solution",
       [["callCongestion", "callCongestion"], ["waitingProbability", "waitingProbability"], ["meanWait", "meanWait"], ["abandonmentProbability", "abandonmentProbability"], ["lossProbability", "lossProbability"]],
+    );
+  });
+  it("renewal (gamma) arrivals with waiting positions and exponential patience (GI/M/N/N+Q embedded chain)", async () => {
+    await check(
+      { servers: 4, waitingPositions: 3, patience: exponential(1.5), arrivals: { process: "renewal", interarrival: { law: "gamma", mean: 0.25, cv: 1.6 } }, holding: exponential(1), run: run(112) },
+      "GI/M/N/N+Q embedded chain",
+      [["callCongestion", "callCongestion"], ["meanWait", "meanWait"], ["lossProbability", "lossProbability"]],
+    );
+  });
+  it("overflow traffic with waiting positions and patience at the group under study", async () => {
+    await check(
+      { servers: 3, waitingPositions: 2, patience: exponential(0.8), arrivals: { process: "overflow", primaries: [{ traffic: 4, servers: 3 }, { traffic: 1, servers: 0 }] }, holding: exponential(0.5), run: run(113) },
+      "overflow network exact chain",
+      [["callCongestion", "callCongestion"], ["meanWait", "meanWait"], ["abandonmentProbability", "abandonmentProbability"]],
+    );
+  });
+  it("retrials on renewal (uniform interarrival) arrivals", async () => {
+    await check(
+      { servers: 3, arrivals: { process: "renewal", interarrival: { law: "uniform", min: 0.1, max: 0.6 } }, holding: exponential(1), retrials: { persistence: 0.6, delay: exponential(0.5) }, run: run(114) },
+      "renewal retrial embedded chain",
+      [["callCongestion", "callCongestion"], ["lossProbability", "lossProbability"], ["meanRetrying", "meanRetrying"]],
     );
   });
   it("renewal arrivals with lognormal interarrival times (numerical transform)", async () => {

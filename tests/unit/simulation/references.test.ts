@@ -47,6 +47,14 @@ describe("references registry", () => {
     expect(exactFor(arrivals[1], features[2][1])).toBe(true); // MMPP waiting with patience
     expect(exactFor(arrivals[4], features[2][1])).toBe(true); // any batch law with waiting and patience
     expect(exactFor(arrivals[3], features[0][1])).toBe(true); // Weibull renewal
+    expect(exactFor(arrivals[3], features[2][1])).toBe(true); // Weibull renewal with waiting and patience (GI/M/N/N+Q)
+    expect(exactFor(arrivals[3], features[4][1])).toBe(true); // Weibull renewal with retrials (cv 0.6: a short tail)
+    expect(exactFor({ process: "renewal", interarrival: { law: "lognormal", mean: 0.25, cv: 2 } }, features[4][1])).toBe(false); // long tail: beyond the series
+    expect(exactFor(arrivals[1], features[4][1])).toBe(true); // MMPP retrials
+    expect(exactFor(arrivals[2], { ...features[4][1], ...features[2][1] })).toBe(true); // on-off retrials with waiting and patience
+    expect(exactFor(arrivals[4], features[4][1])).toBe(true); // batch retrials
+    expect(exactFor(arrivals[5], features[4][1])).toBe(false); // overflow retrials
+    expect(exactFor(arrivals[5], features[2][1])).toBe(true); // overflow with waiting and patience
     expect(exactFor(arrivals[0], features[5][1])).toBe(false); // attempt limit
     expect(exactFor(arrivals[0], features[6][1])).toBe(false); // non-exponential retry delay
     expect(exactFor(arrivals[7], features[0][1])).toBe(true); // time-varying: the exact periodic solution
