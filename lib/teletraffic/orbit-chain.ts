@@ -3,7 +3,7 @@ import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError
 import { batchMoments, batchSizeSchema, batchTail, type BatchSizeLaw } from "./laws";
 import { mmppPhasesSchema, mmppShapeIsSquare } from "./mmpp";
 import { phaseStationary } from "./qbd";
-import { retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
+import { extrapolatedTail, levelMass, retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
 
 /**
  * Exact retrial models whose fresh calls are not Poisson: Markov-modulated Poisson arrivals
@@ -275,14 +275,7 @@ function solveOrbitModel(m: OrbitModel): OrbitChainMeasures {
         0,
       );
     const pi = solveCapped(m, cap);
-    let top = 0;
-    let below = 0;
-    for (let i = 0; i < level; i++) {
-      top += pi[cap * level + i];
-      below += pi[(cap - 1) * level + i];
-    }
-    const rho = below > 0 ? top / below : 1;
-    const neglected = top === 0 ? 0 : rho < 0.99 ? (top * rho) / (1 - rho) : Infinity;
+    const neglected = extrapolatedTail((o) => levelMass(pi, o, level), cap);
     if (neglected <= TRUNCATION_BOUND) return measures(m, pi, cap, neglected + cut);
   }
 }

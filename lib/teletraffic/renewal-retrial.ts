@@ -4,7 +4,7 @@ import { lawMean, type Law } from "./laws";
 import { gthStationary } from "./qbd";
 import { interarrivalLawSchema } from "./renewal";
 import { mixedPoisson } from "./renewal-queue";
-import { retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
+import { extrapolatedTail, levelMass, retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
 
 /**
  * Retrials on renewal arrivals (GI/M/N/N+Q with an orbit), by the embedded Markov chain at arrival
@@ -224,14 +224,7 @@ export function renewalRetrialSystem(input: RenewalRetrialInput): RenewalRetrial
     const sol = solveCapped(model, cap);
     let neglected = 0;
     if (cap > 0) {
-      let top = 0;
-      let below = 0;
-      for (let k = 0; k < width; k++) {
-        top += sol.time[cap * width + k];
-        below += sol.time[(cap - 1) * width + k];
-      }
-      const rho = below > 0 ? top / below : 1;
-      neglected = top === 0 ? 0 : rho < 0.99 ? (top * rho) / (1 - rho) : Infinity;
+      neglected = extrapolatedTail((o) => levelMass(sol.time, o, width), cap);
       if (neglected > TRUNCATION_BOUND) continue;
     }
     return assertFiniteResult(measures(model, sol, cap, neglected + sol.seriesError, v), "renewalRetrialSystem");

@@ -107,6 +107,17 @@ export function retrialRateMeasures(f: {
 }
 
 export const TRUNCATION_BOUND = 1e-12;
+
+/**
+ * Estimated probability mass beyond an orbit cap from the masses of the last two orbit levels:
+ * a geometric tail P(o = M) ρ/(1 − ρ), ρ = P(o = M)/P(o = M − 1); Infinity when ρ is near 1.
+ */
+export function extrapolatedTail(level: (o: number) => number, cap: number): number {
+  const top = level(cap);
+  const below = level(cap - 1);
+  const rho = below > 0 ? top / below : 1;
+  return top === 0 ? 0 : rho < 0.99 ? (top * rho) / (1 - rho) : Infinity;
+}
 /** Largest chain (levels × (K + 1)) solved at all: memory for the R rows (8 bytes each). */
 export const MAX_MARKOV_STATES = 5_000_000;
 /** Above this many states an evaluation is no longer interactive (about 100 ms). */
@@ -297,6 +308,13 @@ function measures(model: MarkovSystemModel, pi: Float64Array, cap: number, negle
   };
 }
 
+/** Probability of orbit level o in a level-major law with `width` states per level. */
+export function levelMass(pi: Float64Array, o: number, width: number): number {
+  let s = 0;
+  for (let k = 0; k < width; k++) s += pi[o * width + k];
+  return s;
+}
+
 /** Orbit levels the model can reach without a cap, or undefined when the orbit is unbounded. */
 function boundedOrbit(model: MarkovSystemModel): number | undefined {
   if (model.persistence === 0) return 0;
@@ -326,14 +344,7 @@ export function solveMarkovSystem(model: MarkovSystemModel, maxStates = MAX_MARK
       );
     }
     const pi = solveCapped(model, cap);
-    let top = 0;
-    let below = 0;
-    for (let k = 0; k < width; k++) {
-      top += pi[cap * width + k];
-      below += pi[(cap - 1) * width + k];
-    }
-    const rho = below > 0 ? top / below : 1;
-    const neglected = top === 0 ? 0 : rho < 0.99 ? (top * rho) / (1 - rho) : Infinity;
+    const neglected = extrapolatedTail((o) => levelMass(pi, o, width), cap);
     if (neglected <= TRUNCATION_BOUND) return measures(model, pi, cap, neglected);
     cap *= 2;
   }
