@@ -40,14 +40,14 @@ function toFormFields(fields: Record<string, string>): Record<string, string> {
   return out;
 }
 
-export function SweepForm({ workspace, initialScenarioId }: { workspace: string; initialScenarioId?: string }) {
+export function SweepForm({ workspace, initialScenarioId, initialKind }: { workspace: string; initialScenarioId?: string; initialKind?: SweepKind }) {
   const router = useRouter();
   const scenarios = useScenarios(workspace);
   const [scenarioId, setScenarioId] = useState(initialScenarioId ?? "");
   const scenario = useScenario(workspace, scenarioId || undefined);
   const [revision, setRevision] = useState("");
   const [name, setName] = useState("");
-  const [kind, setKind] = useState<SweepKind>("sweep");
+  const [kind, setKind] = useState<SweepKind>(initialKind ?? "sweep");
   const [one, setOne] = useState<AxisState>({ parameter: "offeredTraffic", values: "" });
   const [x, setX] = useState<AxisState>({ parameter: "offeredTraffic", values: "" });
   const [y, setY] = useState<AxisState>({ parameter: "peakedness", values: "" });

@@ -230,9 +230,12 @@ function MakeScenario({ workspace, upload, canCreate }: { workspace: string; upl
               <li key={n}>{n}</li>
             ))}
           </ul>
-          <div className="mt-3">
+          <div className="mt-3 flex flex-wrap gap-2">
             <LinkButton href={`/w/${workspace}/scenarios/${made.scenarioId}`} data-testid="open-scenario">
-              Open the scenario to run it or search the servers needed
+              Open the scenario to run it
+            </LinkButton>
+            <LinkButton href={`/w/${workspace}/sweeps/new?scenario=${made.scenarioId}&kind=dimensioning`} variant="secondary" data-testid="search-servers">
+              Search the servers needed
             </LinkButton>
           </div>
         </Callout>

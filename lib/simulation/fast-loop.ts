@@ -94,7 +94,13 @@ const ZIG_HYPEREXPONENTIAL = codeOf({ law: "hyperexponential", mean: 0.5, scv: 4
 function draw(sampler: LawSampler, rng: Random): number {
   const p = sampler as unknown as SamplerParameters;
   const code = p.code;
-  return code === ZIG_EXPONENTIAL ? p.a * zigExponential(rng) : code === ZIG_LOGNORMAL ? Math.exp(p.a + p.b * zigNormal(rng)) : code === ZIG_HYPEREXPONENTIAL ? hyperexponentialDraw(p, rng) : sampler.sample(rng);
+  return code === ZIG_EXPONENTIAL
+    ? p.a * zigExponential(rng)
+    : code === ZIG_LOGNORMAL
+      ? Math.exp(p.a + p.b * zigNormal(rng))
+      : code === ZIG_HYPEREXPONENTIAL
+        ? hyperexponentialDraw(p, rng)
+        : sampler.sample(rng);
 }
 
 function hyperexponentialDraw(p: SamplerParameters, rng: Random): number {
@@ -450,7 +456,8 @@ export class FastReplication {
     const rate = this.rate;
     // Poisson-timed fresh arrivals (Poisson, batch, overflow): their next instant is drawn inline.
     const poissonTimed = kind === A_POISSON || kind === A_BATCH || overflow;
-    // The event list, in locals for the slice (heap.ts-style arrays; growHeap() replaces them).
+    // The event list in locals for the slice: pushes and pops are written out in the loop below
+    // (growHeap() replaces the arrays when full).
     let ht = this.heapTime;
     let hd = this.heapData;
     let hn = this.heapSize;

@@ -33,6 +33,13 @@ test("engineer goes from the demo call records to a finished run with a verdict"
 
   await page.getByTestId("scenario-source").selectOption("busy-hour");
   await page.getByTestId("make-scenario").click();
+  // The search for the servers needed opens the sizing-search form on the new scenario.
+  const search = page.getByTestId("search-servers");
+  await expect(search).toHaveAttribute("href", /\/w\/kestrel-fen\/sweeps\/new\?scenario=[\w-]+&kind=dimensioning$/);
+  const form = await page.context().newPage();
+  await form.goto((await search.getAttribute("href"))!);
+  await expect(form.locator('input[name="kind"][value="dimensioning"]')).toBeChecked();
+  await form.close();
   await page.getByTestId("open-scenario").click();
   await expect(page).toHaveURL(/\/w\/kestrel-fen\/scenarios\/[\w-]+$/);
   // Small and quick: 4 replications of 5 000 calls.
