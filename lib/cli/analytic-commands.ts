@@ -9,11 +9,19 @@ const listFlags: Partial<Record<AnalyticOperationName, string[]>> = {
   "mmpp-queue": ["rates"],
   "renewal-loss": ["interarrival.probabilities", "interarrival.means", "interarrival.samples"],
   "batch-loss": ["batchSize.values", "batchSize.probabilities"],
+  "mmpp-retrial": ["rates"],
+  "batch-retrial": ["batchSize.values", "batchSize.probabilities"],
+  "renewal-queue": ["interarrival.probabilities", "interarrival.means", "interarrival.samples"],
+  "renewal-retrial": ["interarrival.probabilities", "interarrival.means", "interarrival.samples"],
 };
 
-/** Flags of renewal-loss that describe the interarrival law, so `--law erlang --k 2 --mean 0.1` works. */
+const interarrivalFlags = { into: "interarrival", keys: ["law", "k", "mean", "scv", "probabilities", "means", "value", "cv", "shape", "scale", "min", "max", "samples"] };
+
+/** Flags of renewal-loss (and renewal-queue, renewal-retrial) that describe the interarrival law, so `--law erlang --k 2 --mean 0.1` works. */
 const nestedFlags: Partial<Record<AnalyticOperationName, { into: string; keys: string[] }>> = {
-  "renewal-loss": { into: "interarrival", keys: ["law", "k", "mean", "scv", "probabilities", "means", "value", "cv", "shape", "scale", "min", "max", "samples"] },
+  "renewal-loss": interarrivalFlags,
+  "renewal-queue": interarrivalFlags,
+  "renewal-retrial": interarrivalFlags,
 };
 
 const numberPattern = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;

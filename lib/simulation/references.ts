@@ -264,6 +264,7 @@ export const TIME_VARYING_METHODS = {
   pointwise: "pointwise stationary approximation",
   modifiedLoad: "modified offered load approximation",
   periodic: "M(t)/M/N/N periodic exact solution",
+  periodicQueue: "M(t)/M/N/N+Q periodic exact solution",
 } as const;
 
 function timeVaryingRule(method: "pointwise stationary approximation" | "modified offered load approximation"): ReferenceRule {
@@ -325,8 +326,8 @@ const periodicRule: ReferenceRule = {
 
 /** The exact periodic solution with waiting positions (and exponential patience): the same forward equations on N + Q + 1 states. */
 const periodicQueueRule: ReferenceRule = {
-  method: "M(t)/M/N/N+Q periodic exact solution",
-  limits: `interactive up to about ${tt.INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 1) × uniformisation terms over the cycles needed); at most ${tt.MAX_PERIODIC_WORK}`,
+  method: TIME_VARYING_METHODS.periodicQueue,
+  limits: `interactive up to about ${tt.INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 51) × uniformisation terms over the cycles needed); at most ${tt.MAX_PERIODIC_WORK}`,
   interactiveWork: tt.INTERACTIVE_PERIODIC_QUEUE_WORK,
   work: (s, f) =>
     s.arrivals.process === "time-varying" ? tt.periodicQueueWork(f.n, s.waitingPositions, s.arrivals.profile, f.h, s.patience ? tt.lawMean(s.patience) : undefined) : 0,

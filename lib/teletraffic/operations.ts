@@ -177,7 +177,7 @@ export const analyticOperations = {
     "time-varying load with waiting positions (and optional exponential patience): exact periodic loss, waiting, mean wait and abandonment (forward equations, stated error bound)",
     periodicQueueInputSchema,
     periodicQueueSystem,
-    `interactive up to about ${INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 1) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
+    `interactive up to about ${INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 51) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
   ),
   "overflow-loss": operation("exact overflow network beside equivalent random and Hayward", overflowLossInputSchema, overflowLossSystem),
   "multi-rate": operation("multi-rate loss link, Kaufman–Roberts recursion: per-class blocking", kaufmanRobertsInputSchema, kaufmanRoberts),

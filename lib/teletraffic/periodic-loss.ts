@@ -42,7 +42,7 @@ const STEP_TAIL = 1e-25;
 /** Work units (state updates, i.e. (N + 1) × uniformisation terms) answered interactively, about 100 ms. */
 export const INTERACTIVE_PERIODIC_WORK = 30_000_000;
 export const MAX_PERIODIC_WORK = 3_000_000_000;
-/** The same for the chain with waiting positions (a third more work per state update: the occupation vector is kept). */
+/** The same for the chain with waiting positions ((N + Q + 1 + 50) × terms × cycles; the occupation vector is kept). */
 export const INTERACTIVE_PERIODIC_QUEUE_WORK = 12_000_000;
 
 const toleranceField = z
@@ -210,7 +210,7 @@ function settleGap(c: Contraction, capacity: number, tolerance: number, segments
   return Math.max((tolerance * c.minU) / (10 * segments * c.growth), 100 * (capacity + 1) * Number.EPSILON * c.minU);
 }
 
-/** Estimated state updates: (K + 1) × uniformisation terms over the cycles the contraction needs from the worst start. */
+/** Estimated state updates: (K + 1 + overhead) × uniformisation terms over the cycles the contraction needs from the worst start. */
 function birthDeathWork(m: BirthDeath, profile: ReadonlyArray<{ duration: number; rate: number }>, tolerance: number): number {
   const c = chooseContraction(m, profile, tolerance);
   if (!c) return Infinity;
@@ -228,8 +228,12 @@ function birthDeathWork(m: BirthDeath, profile: ReadonlyArray<{ duration: number
   // With a waiting room the iteration usually ends on its rounding floor, which the stall test
   // needs a window of cycles to see (the loss chain reproduces its fixed point exactly).
   const cycles = m.capacity > m.servers ? Math.max(cyclesNeeded(c, tolerance), stallWindow(c) + 2) : cyclesNeeded(c, tolerance);
-  return (m.capacity + 1) * terms * cycles;
+  // With a waiting room each uniformisation term also costs a fixed overhead of about
+  // PER_TERM_OVERHEAD state updates (measured: N = 40, Q = 8 ran at half the speed per state of N = 100).
+  return (m.capacity + 1 + (m.capacity > m.servers ? PER_TERM_OVERHEAD : 0)) * terms * cycles;
 }
+
+const PER_TERM_OVERHEAD = 50;
 
 /** Cycles over which the exact map shrinks the step at least by half. */
 const stallWindow = (c: Contraction) => Math.ceil(Math.LN2 / c.exponent) + 1;
