@@ -8,7 +8,7 @@ import { Button, Callout, Card, CardBody, CardDescription, CardHeader, CardTitle
 import { ErrorBlock, LoadingBlock } from "@/components/lab/states";
 import { SafetyNote } from "@/components/lab/safety-note";
 import { JobStatusBadge, ProgressBar, ReviewBadge } from "@/components/runs/status";
-import { ReportLinkButton } from "@/components/runs/target-control";
+import { ReportLinkButton, TargetControl } from "@/components/runs/target-control";
 import { errorMessage } from "@/lib/client/api";
 import { formatDateTime, formatDuration, formatNumber, formatPercent } from "@/lib/client/format";
 import { isLive } from "@/lib/client/queries/keys";
@@ -92,6 +92,8 @@ export function SweepView({ workspace, sweepId, canCancel, safetyCritical, revie
         }
       />
       <SweepProgress workspace={workspace} sweep={sweep} canCancel={canCancel} />
+      {/* Grids and sizing searches carry their own target; a one-parameter sweep's report judges each point against this one. */}
+      {finished && sweep.kind === "sweep" && <TargetControl />}
       {sweep.status === "failed" && (
         <Callout tone="danger" title="The sweep failed">
           {sweep.error ?? "No reason was recorded."}
