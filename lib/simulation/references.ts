@@ -178,6 +178,28 @@ const mmppRetrialRule: ReferenceRule = {
   compute: (s, f) => retrialValues(tt.mmppRetrialSystem({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, ...exactRetrials(s, f)!, ...mmppOf(s.arrivals)! }), f),
 };
 
+/** Retrials on overflow arrivals: the exact chain on (primary states, calls at the final group, orbit). */
+const overflowRetrialRule: ReferenceRule = {
+  method: "overflow retrial exact chain",
+  limits: `interactive up to states × lower band × upper band = ${tt.INTERACTIVE_OVERFLOW_RETRIAL_WORK} at the first orbit cap (the band is mostly empty); at most ${tt.MAX_ORBIT_BAND} band entries; levels are Π(nᵢ + 1) primary states × (N + Q + 1); the orbit is truncated where the neglected mass is below ${tt.TRUNCATION_BOUND}`,
+  interactiveWork: tt.INTERACTIVE_OVERFLOW_RETRIAL_WORK,
+  work: (s, f) => {
+    const r = exactRetrials(s, f);
+    return s.arrivals.process === "overflow" && r ? tt.overflowRetrialWork({ servers: f.n, waitingPositions: s.waitingPositions, persistence: r.persistence, primaries: s.arrivals.primaries }) : 0;
+  },
+  applies: (s, f) =>
+    s.arrivals.process === "overflow" && exactRetrials(s, f)
+      ? {
+          exact: f.exponentialHolding,
+          assumptions: `Poisson traffic to each primary group, overflow offered to the group under study, exponential holding with one mean, ${f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, ` : ""}refused calls retry at the group under study with the persistence after exponential delays, no attempt limit`,
+        }
+      : undefined,
+  compute: (s, f) => {
+    if (s.arrivals.process !== "overflow") throw new Error("not overflow arrivals");
+    return retrialValues(tt.overflowRetrialSystem({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, primaries: s.arrivals.primaries, ...exactRetrials(s, f)! }), f);
+  },
+};
+
 /** Retrials on renewal arrivals: the embedded chain at arrivals on (calls, orbit). */
 const renewalRetrialRule: ReferenceRule = {
   method: "renewal retrial embedded chain",
@@ -564,6 +586,7 @@ export const referenceRules: ReferenceRule[] = [
   },
   mmppRetrialRule,
   batchRetrialRule,
+  overflowRetrialRule,
   renewalRetrialRule,
   peakedRule("Wilkinson equivalent random"),
   peakedRule("Hayward"),
@@ -621,9 +644,13 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
       "renewal arrivals with retrials beyond the embedded chain's reach: it is dense in (calls, orbit) (N, Q <= 200, 3000 states) and sums the chain between arrivals over the interarrival law term by term, so long-tailed laws (lognormal, Weibull, Pareto, hyperexponential, gamma with cv > 1 against fast retries) need more than its 20 000 terms; an implementation limit, not a mathematical one",
   },
   {
-    when: (s, f) => f.retrying && s.arrivals.process === "overflow",
-    reason:
-      "retrials on overflow arrivals: the exact chain on (primary groups' states, calls, orbit) exists and is finite per orbit level, but it is not implemented (the overflow chain alone has up to 200 000 states)",
+    when: (s, f) => {
+      const r = exactRetrials(s, f);
+      if (s.arrivals.process !== "overflow" || !r) return false;
+      // The schema's refinement is the size check, from the shape alone.
+      return !tt.overflowRetrialInputSchema.safeParse({ servers: f.n, waitingPositions: s.waitingPositions, meanHolding: f.h, primaries: s.arrivals.primaries, ...r }).success;
+    },
+    reason: `retrials on overflow arrivals beyond the banded solve: the exact chain has Π(nᵢ + 1) × (N + Q + 1) states per orbit level and its band is two levels wide, so it needs (orbit cap + 1) × level × (2 level + 1) stored entries, more than ${tt.MAX_ORBIT_BAND} already at the first orbit cap; a memory limit of this method, not a mathematical one`,
   },
   {
     when: (s, f) => s.arrivals.process === "overflow" && f.waiting && (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 > tt.MAX_OVERFLOW_WORK,

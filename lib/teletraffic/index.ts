@@ -224,10 +224,15 @@ export {
   mmppRetrialInputSchema,
   mmppRetrialSystem,
   mmppRetrialWork,
+  overflowRetrialInputSchema,
+  overflowRetrialSystem,
+  overflowRetrialWork,
   INTERACTIVE_ORBIT_WORK,
+  INTERACTIVE_OVERFLOW_RETRIAL_WORK,
   MAX_ORBIT_BAND,
   type BatchRetrialInput,
   type MmppRetrialInput,
+  type OverflowRetrialInput,
   type OrbitChainResult,
 } from "./orbit-chain";
 export {

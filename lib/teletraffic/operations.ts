@@ -50,7 +50,7 @@ import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
 import { INTERACTIVE_RENEWAL_QUEUE_WORK, MAX_RENEWAL_QUEUE_WORK, renewalQueueInputSchema, renewalQueueSystem } from "./renewal-queue";
 import { INTERACTIVE_RENEWAL_RETRIAL_WORK, renewalRetrialInputSchema, renewalRetrialSystem } from "./renewal-retrial";
-import { batchRetrialInputSchema, batchRetrialSystem, INTERACTIVE_ORBIT_WORK, MAX_ORBIT_BAND, mmppRetrialInputSchema, mmppRetrialSystem } from "./orbit-chain";
+import { batchRetrialInputSchema, batchRetrialSystem, INTERACTIVE_ORBIT_WORK, INTERACTIVE_OVERFLOW_RETRIAL_WORK, MAX_ORBIT_BAND, mmppRetrialInputSchema, mmppRetrialSystem, overflowRetrialInputSchema, overflowRetrialSystem } from "./orbit-chain";
 import { kaufmanRoberts, kaufmanRobertsInputSchema } from "./multi-rate";
 
 /** "erlang-b" takes exactly two of servers, traffic, target and dispatches on which are present. */
@@ -129,6 +129,12 @@ export const analyticOperations = {
     batchRetrialInputSchema,
     batchRetrialSystem,
     orbitLimits,
+  ),
+  "overflow-retrial": operation(
+    "retrials on overflow traffic: primary groups overflow to a final group whose refused calls retry there (optional waiting room and patience); exact first-attempt blocking, loss, attempts, orbit",
+    overflowRetrialInputSchema,
+    overflowRetrialSystem,
+    `interactive up to states × lower band × upper band = ${INTERACTIVE_OVERFLOW_RETRIAL_WORK} at the first orbit cap (32; the band is mostly empty); at most ${MAX_ORBIT_BAND} band entries; levels are Π(nᵢ + 1) primary states × (N + Q + 1)`,
   ),
   "patience-queue": operation("M/M/N/N+Q with exponential patience: loss, waiting, mean wait, abandonment", patienceQueueInputSchema, patienceQueue, markovLimits),
   "engset-queue": operation("Engset with waiting positions (and optional patience): exact finite-source loss–delay system", engsetQueueInputSchema, engsetQueue, markovLimits),

@@ -3,6 +3,8 @@ import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError
 import { batchMoments, batchSizeSchema, batchTail, type BatchSizeLaw } from "./laws";
 import { mmppPhasesSchema, mmppShapeIsSquare } from "./mmpp";
 import { phaseStationary } from "./qbd";
+import { erlangBUnchecked } from "./erlang-b";
+import { primaryEnvironment, primaryGroupsSchema, type PrimaryGroup } from "./overflow-chain";
 import { extrapolatedTail, levelMass, retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
 
 /**
@@ -31,11 +33,18 @@ export const MAX_ORBIT_BAND = 10_000_000;
  * interactive: the doubling usually solves two or three caps, about 5 ns per unit, so about 100 ms.
  */
 export const INTERACTIVE_ORBIT_WORK = 5_000_000;
+/**
+ * The same for overflow arrivals: the primaries change one group at a time, so most of the band
+ * is zero and the elimination skips it; measured ad hoc at about 1 to 1.5 ns per unit with one
+ * orbit doubling (a 20 000 000-unit case about 60 ms), hence a larger limit than for dense phases.
+ */
+export const INTERACTIVE_OVERFLOW_RETRIAL_WORK = 20_000_000;
 const FIRST_CAP = 32;
 const GEOMETRIC_CUT = 1e-16;
 
 type Fresh =
-  | { kind: "mmpp"; rates: number[]; switching: number[][] }
+  /** phase-modulated Poisson: arrival rate per phase, sparse phase changes [to, rate] per phase */
+  | { kind: "mmpp"; rates: ArrayLike<number>; moves: Array<Array<[to: number, rate: number]>> }
   | { kind: "batch"; batchRate: number; sizes: Float64Array; allOrNothing: boolean; cutTail: number };
 
 interface OrbitModel {
@@ -64,11 +73,15 @@ const largestOf = (m: OrbitModel) => (m.fresh.kind === "batch" ? m.fresh.sizes.l
 
 /** Band widths of the chain with the orbit capped at `cap` (orbit-major order, level size m). */
 function bandOf(m: OrbitModel, cap: number): { states: number; lower: number; upper: number; width: number } {
-  const k = m.servers + m.waitingPositions;
-  const level = phasesOf(m) * (k + 1);
+  return bandOfShape(phasesOf(m), m.servers + m.waitingPositions, m.fresh.kind === "mmpp" ? undefined : largestOf(m), cap);
+}
+
+/** The same from the shape alone (phases, N + Q, largest batch or undefined for single arrivals), so sizes can be checked before a model is built. */
+function bandOfShape(phases: number, k: number, largestBatch: number | undefined, cap: number): { states: number; lower: number; upper: number; width: number } {
+  const level = phases * (k + 1);
   const states = (cap + 1) * level;
-  const lower = Math.max(level, (phasesOf(m) - 1) * (k + 1));
-  const upper = m.fresh.kind === "mmpp" ? level : Math.min(cap, largestOf(m)) * level + k;
+  const lower = Math.max(level, (phases - 1) * (k + 1));
+  const upper = largestBatch === undefined ? level : Math.min(cap, largestBatch) * level + k;
   return { states, lower, upper, width: lower + upper + 1 };
 }
 
@@ -107,7 +120,7 @@ function forEachTransition(m: OrbitModel, cap: number, visit: (from: number, to:
           else if (p < 1) visit(from, index(o - 1, e, k), o * m.theta * (1 - p));
         }
         if (f.kind === "mmpp") {
-          for (let e2 = 0; e2 < phases; e2++) if (e2 !== e && f.switching[e][e2] > 0) visit(from, index(o, e2, k), f.switching[e][e2]);
+          for (const [e2, rate] of f.moves[e]) visit(from, index(o, e2, k), rate);
           const lambda = f.rates[e];
           if (lambda > 0) {
             if (k < kMax) visit(from, index(o, e, k + 1), lambda);
@@ -295,7 +308,11 @@ function checkCommon(v: { meanPatience?: number; waitingPositions: number }, ctx
 }
 
 function checkSize(m: OrbitModel, ctx: z.RefinementCtx): void {
-  const b = bandOf(m, m.persistence > 0 ? FIRST_CAP : 0);
+  checkShape(phasesOf(m), m.servers + m.waitingPositions, m.fresh.kind === "mmpp" ? undefined : largestOf(m), m.persistence, ctx);
+}
+
+function checkShape(phases: number, k: number, largestBatch: number | undefined, persistence: number, ctx: z.RefinementCtx): void {
+  const b = bandOfShape(phases, k, largestBatch, persistence > 0 ? FIRST_CAP : 0);
   if (b.states * b.width > MAX_ORBIT_BAND)
     ctx.addIssue({ code: "custom", path: ["servers"], message: `the chain needs ${b.states * b.width} band entries at its first orbit cap, more than ${MAX_ORBIT_BAND}` });
 }
@@ -323,6 +340,18 @@ export const batchRetrialInputSchema = z
   .describe("retrials on Poisson batches of any size law: exact chain on (calls in the system, calls in orbit), each refused call of a batch retrying with the persistence");
 export type BatchRetrialInput = z.input<typeof batchRetrialInputSchema>;
 
+export const overflowRetrialInputSchema = z
+  .object({ ...retrialFields, primaries: primaryGroupsSchema })
+  .superRefine((v, ctx) => {
+    checkCommon(v, ctx);
+    // Checked from the shape: the product of primary states can be astronomically large.
+    checkShape(primaryStates(v.primaries), v.servers + v.waitingPositions, undefined, v.persistence, ctx);
+  })
+  .describe(
+    "retrials on overflow arrivals: primary groups with own Poisson traffic overflow to a final group of N servers (optional waiting room and patience), whose refused calls retry there; exact chain on (primary states, calls at the final group, calls in orbit)",
+  );
+export type OverflowRetrialInput = z.input<typeof overflowRetrialInputSchema>;
+
 type Common = { servers: number; waitingPositions: number; persistence: number; meanRetryDelay: number; meanHolding: number; meanPatience?: number };
 
 function common(v: Common): Omit<OrbitModel, "fresh"> {
@@ -337,8 +366,24 @@ function common(v: Common): Omit<OrbitModel, "fresh"> {
 }
 
 function mmppModelOf(v: Common & { rates: number[]; switching: number[][] }): OrbitModel {
-  return { ...common(v), fresh: { kind: "mmpp", rates: v.rates, switching: v.switching } };
+  const moves = v.switching.map((row, e) => row.flatMap((rate, e2): Array<[number, number]> => (e2 !== e && rate > 0 ? [[e2, rate]] : [])));
+  return { ...common(v), fresh: { kind: "mmpp", rates: v.rates, moves } };
 }
+
+/**
+ * Overflow arrivals: the primary groups (own Poisson traffic, exponential holding with the same
+ * mean as the final group) are the phase process, and the overflow rate in a phase is the traffic
+ * of the primaries that are full. Refused calls retry at the final group only, as the engine does.
+ */
+function overflowModelOf(v: Common & { primaries: PrimaryGroup[] }): OrbitModel {
+  const env = primaryEnvironment(v.primaries);
+  const mu = 1 / v.meanHolding;
+  const moves: Array<Array<[number, number]>> = Array.from({ length: env.phases }, () => []);
+  for (const [from, to, rate] of env.edges) moves[from].push([to, rate * mu]);
+  return { ...common(v), fresh: { kind: "mmpp", rates: env.up.map((r) => r * mu), moves } };
+}
+
+const primaryStates = (primaries: readonly PrimaryGroup[]) => primaries.reduce((k, p) => k * (p.servers + 1), 1);
 
 /** Batch-size probabilities P(X = x), x = 1..largest (geometric cut where its tail is below 1e-16). */
 function sizesOf(law: BatchSizeLaw): { sizes: Float64Array; cutTail: number } {
@@ -382,7 +427,13 @@ export function batchRetrialWork(v: Common & { traffic: number; batchSize: Batch
   return workAt(m, m.persistence > 0 ? FIRST_CAP : 0);
 }
 
-function finish(m: OrbitModel, what: string, v: Common): OrbitChainResult {
+/** Work units as for the other chains, from the shape alone (no environment is built). */
+export function overflowRetrialWork(v: { servers: number; waitingPositions: number; persistence: number; primaries: readonly PrimaryGroup[] }): number {
+  const b = bandOfShape(primaryStates(v.primaries), v.servers + v.waitingPositions, undefined, v.persistence > 0 ? FIRST_CAP : 0);
+  return b.states * b.lower * b.upper;
+}
+
+function finish(m: OrbitModel, what: string, v: Common, interactiveWork = INTERACTIVE_ORBIT_WORK): OrbitChainResult {
   const r = solveOrbitModel(m);
   const truncation = r.neglectedMass > 0 ? `; orbit truncated at ${r.orbitCap} calls, estimated neglected mass ${r.neglectedMass.toExponential(1)} (bound ${TRUNCATION_BOUND})` : "";
   return assertFiniteResult(
@@ -392,7 +443,7 @@ function finish(m: OrbitModel, what: string, v: Common): OrbitChainResult {
       waitingPositions: v.waitingPositions,
       persistence: v.persistence,
       offeredTraffic: r.freshRate * v.meanHolding,
-      large: workAt(m, m.persistence > 0 ? FIRST_CAP : 0) > INTERACTIVE_ORBIT_WORK,
+      large: workAt(m, m.persistence > 0 ? FIRST_CAP : 0) > interactiveWork,
       ...r,
     },
     "orbitChain",
@@ -429,4 +480,18 @@ export function batchRetrialSystem(input: BatchRetrialInput): OrbitChainResult {
     if (smallest > v.servers + v.waitingPositions) throw inputError("batchSize", `every batch is larger than servers + waitingPositions (${v.servers + v.waitingPositions}) and is always refused`);
   }
   return finish(m, `retrials on Poisson batches (${v.batchSize.law} sizes, ${v.admission})`, v);
+}
+
+/**
+ * Retrials on overflow traffic (the overflow network of overflow-chain.ts with an orbit at the
+ * final group): the MMPP retrial chain with the joint primary state as the phase (Falin &
+ * Templeton 1997, the retrial queue in a random environment). Offered traffic is the overflow traffic.
+ */
+export function overflowRetrialSystem(input: OverflowRetrialInput): OrbitChainResult {
+  const v = parseInput(overflowRetrialInputSchema, input);
+  // Independent primaries: the overflow traffic is Σ Aᵢ B(nᵢ, Aᵢ).
+  const overflow = v.primaries.reduce((s, p) => s + p.traffic * erlangBUnchecked(p.servers, p.traffic), 0);
+  if (!(overflow > 1e-280)) throw inputError("primaries", `no traffic overflows to the final group (overflow ${overflow} erlangs is below the float range)`);
+  checkStable(v, overflow);
+  return finish(overflowModelOf(v), `retrials on overflow from ${v.primaries.length} primary group${v.primaries.length > 1 ? "s" : ""}`, v, INTERACTIVE_OVERFLOW_RETRIAL_WORK);
 }

@@ -11,18 +11,20 @@ export const MAX_OVERFLOW_WORK = 200_000_000;
 const MAX_GAUSS_SEIDEL_WORK = 1_000_000_000;
 const GAUSS_SEIDEL_TOLERANCE = 1e-14;
 
+export const primaryGroupsSchema = z
+  .array(
+    z.object({
+      traffic: z.number().gt(0).max(1e4).describe("Poisson traffic offered to this primary group, erlangs"),
+      servers: z.number().int().min(0).max(1000).describe("servers of this primary group (0: the traffic goes straight to the final group)"),
+    }),
+  )
+  .min(1)
+  .max(8)
+  .describe("primary groups (1..8) whose overflow is offered to the final group");
+
 export const overflowLossInputSchema = z
   .object({
-    primaries: z
-      .array(
-        z.object({
-          traffic: z.number().gt(0).max(1e4).describe("Poisson traffic offered to this primary group, erlangs"),
-          servers: z.number().int().min(0).max(1000).describe("servers of this primary group (0: the traffic goes straight to the final group)"),
-        }),
-      )
-      .min(1)
-      .max(8)
-      .describe("primary groups (1..8) whose overflow is offered to the final group"),
+    primaries: primaryGroupsSchema,
     servers: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).describe("servers N of the final (overflow) group"),
     waitingPositions: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).default(0).describe("waiting positions Q (FIFO) at the final group, default 0"),
     meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a call waiting at the final group, in mean holding times; default: waits for ever"),
@@ -74,6 +76,42 @@ export interface OverflowLossResult {
   };
 }
 
+export type PrimaryGroup = { traffic: number; servers: number };
+
+/**
+ * The primary groups as a Markov environment, in mean holding times: phase = mixed-radix vector
+ * of busy servers per group (group i has stride Π_{j<i}(n_j + 1)); `edges` are the primaries'
+ * own arrivals and departures, `up[phase]` the overflow rate (sum of the traffic of the groups that
+ * are full). Shared by the overflow loss chain and the overflow retrial chain (orbit-chain.ts).
+ */
+export function primaryEnvironment(primaries: readonly PrimaryGroup[]): {
+  phases: number;
+  digit(phase: number, group: number): number;
+  up: Float64Array;
+  edges: Array<[from: number, to: number, rate: number]>;
+} {
+  const sizes = primaries.map((p) => p.servers + 1);
+  const k = sizes.reduce((a, b) => a * b, 1);
+  const stride: number[] = [];
+  let acc = 1;
+  for (const s of sizes) {
+    stride.push(acc);
+    acc *= s;
+  }
+  const digit = (phase: number, i: number) => Math.floor(phase / stride[i]) % sizes[i];
+  const up = new Float64Array(k);
+  const edges: Array<[number, number, number]> = [];
+  for (let phase = 0; phase < k; phase++) {
+    primaries.forEach((p, i) => {
+      const busy = digit(phase, i);
+      if (busy < p.servers) edges.push([phase, phase + stride[i], p.traffic]);
+      else up[phase] += p.traffic;
+      if (busy > 0) edges.push([phase, phase - stride[i], busy]);
+    });
+  }
+  return { phases: k, digit, up, edges };
+}
+
 /**
  * Exact CTMC of the overflow network. The primaries evolve on their own (their overflow does not
  * feed back), so the final group sees a Markov-modulated Poisson stream with the joint primary
@@ -85,28 +123,9 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
   const { primaries, servers: n, waitingPositions: q, meanPatience } = parseInput(overflowLossInputSchema, input);
   const capacity = n + q;
   const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
-  const sizes = primaries.map((p) => p.servers + 1);
-  const k = sizes.reduce((a, b) => a * b, 1);
-  const stride: number[] = [];
-  let acc = 1;
-  for (const s of sizes) {
-    stride.push(acc);
-    acc *= s;
-  }
-  const digit = (phase: number, i: number) => Math.floor(phase / stride[i]) % sizes[i];
-  const up = new Float64Array(k);
-  // sparse phase process of the independent primaries
+  const { phases: k, digit, up, edges } = primaryEnvironment(primaries);
   const inCount = new Int32Array(k + 1);
-  const edges: Array<[number, number, number]> = [];
   const outRate = new Float64Array(k);
-  for (let phase = 0; phase < k; phase++) {
-    primaries.forEach((p, i) => {
-      const busy = digit(phase, i);
-      if (busy < p.servers) edges.push([phase, phase + stride[i], p.traffic]);
-      else up[phase] += p.traffic;
-      if (busy > 0) edges.push([phase, phase - stride[i], busy]);
-    });
-  }
   for (const [from, to, rate] of edges) {
     inCount[to + 1]++;
     outRate[from] += rate;

@@ -2,8 +2,8 @@
 // standardised error (estimate − exact) / SE is Student t with n − 1 degrees of freedom (the
 // replications are i.i.d.; Law 2015, ch. 9), so each check |error| <= t(0.9995, n − 1) SE
 // (expectAgrees) fails with probability 0.001 at a random seed; the seeds are fixed, so every
-// check is deterministic. 44 checks at 0.001: a correct engine passes all at a random seed with
-// probability >= 0.956. Each run is sized so the relative half-width is a few per cent.
+// check is deterministic. 47 checks at 0.001: a correct engine passes all at a random seed with
+// probability >= 0.954 (0.999^47). Each run is sized so the relative half-width is a few per cent.
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { describe, expect, it } from "vitest";
 import { parseScenario, runScenario, type ScenarioInput } from "../../../lib/simulation/node";
@@ -118,6 +118,13 @@ describe("seeded runs agree with the new exact references (99.9 % t bound per ch
       { servers: 3, waitingPositions: 2, patience: exponential(0.8), arrivals: { process: "overflow", primaries: [{ traffic: 4, servers: 3 }, { traffic: 1, servers: 0 }] }, holding: exponential(0.5), run: run(113) },
       "overflow network exact chain",
       [["callCongestion", "callCongestion"], ["meanWait", "meanWait"], ["abandonmentProbability", "abandonmentProbability"]],
+    );
+  });
+  it("retrials on overflow traffic (refused overflow calls retry at the group under study)", async () => {
+    await check(
+      { servers: 3, arrivals: { process: "overflow", primaries: [{ traffic: 3, servers: 2 }, { traffic: 0.8, servers: 0 }] }, holding: exponential(1), retrials: { persistence: 0.6, delay: exponential(0.5) }, run: run(115) },
+      "overflow retrial exact chain",
+      [["callCongestion", "callCongestion"], ["lossProbability", "lossProbability"], ["attemptsPerCall", "attemptsPerCall"]],
     );
   });
   it("retrials on renewal (uniform interarrival) arrivals", async () => {

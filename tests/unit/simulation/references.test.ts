@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { parseScenario, referenceSchema, referencesFor, type ScenarioInput } from "../../../lib/simulation";
 import { referenceRules } from "../../../lib/simulation/references";
-import { erlangB, retrialLossSystem } from "../../../lib/teletraffic";
+import { erlangB, overflowRetrialSystem, retrialLossSystem } from "../../../lib/teletraffic";
 
 const run = { seed: 1, replications: 2, callsPerReplication: 1000 };
 const exponential = (mean: number) => ({ law: "exponential" as const, mean });
@@ -53,7 +53,8 @@ describe("references registry", () => {
     expect(exactFor(arrivals[1], features[4][1])).toBe(true); // MMPP retrials
     expect(exactFor(arrivals[2], { ...features[4][1], ...features[2][1] })).toBe(true); // on-off retrials with waiting and patience
     expect(exactFor(arrivals[4], features[4][1])).toBe(true); // batch retrials
-    expect(exactFor(arrivals[5], features[4][1])).toBe(false); // overflow retrials
+    expect(exactFor(arrivals[5], features[4][1])).toBe(true); // overflow retrials
+    expect(exactFor(arrivals[5], { ...features[4][1], ...features[2][1] })).toBe(true); // overflow retrials with waiting and patience
     expect(exactFor(arrivals[5], features[2][1])).toBe(true); // overflow with waiting and patience
     expect(exactFor(arrivals[0], features[5][1])).toBe(false); // attempt limit
     expect(exactFor(arrivals[0], features[6][1])).toBe(false); // non-exponential retry delay
@@ -68,6 +69,24 @@ describe("references registry", () => {
     const retrial = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[0], holding: lognormal, run, ...features[4][1] }));
     expect(retrial.find((r) => r.method === "retrial model exact chain")!.exact).toBe(false);
     expect(retrial.find((r) => r.method === "exact reference")!.unavailable).toMatch(/holding times are not exponential/);
+  });
+  it("overflow retrials: the exact chain's value, background when large, a stated memory limit beyond the band", () => {
+    const scenario = (primaries: Array<{ traffic: number; servers: number }>, servers: number) =>
+      parseScenario({ servers, arrivals: { process: "overflow", primaries }, holding: exponential(2), run, retrials: { persistence: 0.6, delay: exponential(0.5) } });
+    const small = referencesFor(scenario([{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], 5)).find((r) => r.method === "overflow retrial exact chain")!;
+    const exact = overflowRetrialSystem({ primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 5, meanHolding: 2, persistence: 0.6, meanRetryDelay: 0.5 });
+    expect(small.exact).toBe(true);
+    expect(small.callCongestion).toBe(exact.firstAttemptBlocking);
+    expect(small.lossProbability).toBe(exact.lossProbability);
+    // 2 primaries of 10 servers: 121 phases × 11 final states = 1331 per level, and
+    // (32 + 1) × 1331 × (2 × 1331 + 1) ≈ 1.2e8 band entries > 1e7, so the reason names the memory limit.
+    const huge = referencesFor(scenario([{ traffic: 8, servers: 10 }, { traffic: 8, servers: 10 }], 10), { interactive: true });
+    expect(huge.find((r) => r.method === "exact reference")!.unavailable).toMatch(/beyond the banded solve/);
+    // 1 primary of 12 servers, 8 final: 117 per level, (33 × 117) × 117 × 117 ≈ 5.3e7 work units, above the interactive 2e7.
+    const large = referencesFor(scenario([{ traffic: 10, servers: 12 }], 8), { interactive: true });
+    const flagged = large.find((r) => r.method === "overflow retrial exact chain")!;
+    expect(flagged.background).toBe(true);
+    expect(large.some((r) => r.method === "exact reference")).toBe(false);
   });
   it("the retrial reference is the exact model's value, with extended Erlang B beside it as an approximation", () => {
     const refs = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[0], holding: exponential(1), run, ...features[4][1] }));

@@ -104,6 +104,7 @@ describe("operation registry", () => {
         "renewal-retrial",
         "batch-retrial",
         "overflow-moments",
+        "overflow-retrial",
         "equivalent-random",
         "hayward",
         "extended-erlang-b",
@@ -161,6 +162,7 @@ describe("operation registry", () => {
       "batch-retrial": { servers: 4, traffic: 3, batchSize: { law: "uniform", min: 1, max: 3 }, admission: "partial", persistence: 0.6, meanRetryDelay: 0.5 },
       "periodic-queue": { servers: 10, waitingPositions: 3, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }], meanPatience: 2 },
       "overflow-loss": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4 },
+      "overflow-retrial": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4, persistence: 0.6, meanRetryDelay: 0.5 },
       "multi-rate": { capacity: 20, classes: [{ traffic: 5, bandwidth: 1 }, { traffic: 1, bandwidth: 4 }] },
     };
     for (const [name, op] of Object.entries(analyticOperations)) {
