@@ -108,7 +108,21 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     process.exit(2);
   }
   // Synchronous writes: pipe output is otherwise lost when the process exits right after a line.
-  startWorker(url, { log: (line) => writeSync(1, `${line}\n`) }).then(
+  const log = (line: string) => writeSync(1, `${line}\n`);
+  // Another pg-boss client creating its schema or queues at the same moment can make PostgreSQL abort one of
+  // them (deadlock 40P01, serialization failure 40001): that start is tried again rather than lost.
+  const start = async (attempt = 1): Promise<RunningWorker> => {
+    try {
+      return await startWorker(url, { log });
+    } catch (error) {
+      const code = (error as { code?: string }).code;
+      if (attempt >= 5 || (code !== "40P01" && code !== "40001")) throw error;
+      log(`worker: start attempt ${attempt} failed (${(error as Error).message}); trying again`);
+      await new Promise((r) => setTimeout(r, 500 * attempt));
+      return start(attempt + 1);
+    }
+  };
+  start().then(
     (worker) => {
       const stop = () => worker.stop().then(() => process.exit(0));
       process.once("SIGTERM", stop);

@@ -112,16 +112,18 @@ export async function startStack(options: StackOptions): Promise<RunningStack> {
   const output = (name: string) => ({ quiet, ...(quiet ? { logFile: path.join(projectRoot, "tests/.output/stack", `${name}.log`) } : {}) });
   if (env.SPILLWAY_FAKE_MAIL === "1") supervisor.start("mail", nodeWithTsx("lib/mail/fake-smtp-server.ts"), env, output("mail"));
   supervisor.start("web", ["--require", webHooks, nextBin, "start", "--hostname", "127.0.0.1", "--port", String(options.webPort)], env, output("web"));
-  // Workers restart with backoff when they die; the web server keeps serving meanwhile.
-  for (let i = 1; i <= workers; i++) supervisor.start(`worker-${i}`, nodeWithTsx("worker/main.ts"), env, { ...output(`worker-${i}`), restart: true });
   const stop = async () => {
     await supervisor.stopAll();
     stopDatabase();
   };
   const appUrl = env.APP_URL!;
+  // The health check starts the web's queue client, which creates pg-boss's schema and queues; workers start
+  // after it, because two clients doing that at once can deadlock in PostgreSQL (seen: a worker dying at start).
   if (!(await waitForHttp(`${appUrl}/api/v1/health`, 60_000))) {
     await stop();
     throw new StackError(`the web server did not answer at ${appUrl} within 60 s.`);
   }
+  // Workers restart with backoff when they die; the web server keeps serving meanwhile.
+  for (let i = 1; i <= workers; i++) supervisor.start(`worker-${i}`, nodeWithTsx("worker/main.ts"), env, { ...output(`worker-${i}`), restart: true });
   return { env, appUrl, databaseUrl, supervisor, stop };
 }

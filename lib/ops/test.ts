@@ -1,5 +1,5 @@
 // `npm test`: its own database, then vitest (unit + integration), a production build and Playwright in Chromium.
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
@@ -50,12 +50,18 @@ function runVitest(env: NodeJS.ProcessEnv): SuiteCount {
   return { suite: "vitest", passed: json.numPassedTests, failed, skipped: json.numPendingTests + json.numTodoTests };
 }
 
-function runPlaywright(env: NodeJS.ProcessEnv): SuiteCount {
+// Asynchronous, unlike vitest's run: this process supervises the stack meanwhile (a worker that dies is
+// started again by a timer here, which a synchronous wait would hold back until the browser tests end).
+async function runPlaywright(env: NodeJS.ProcessEnv): Promise<SuiteCount> {
   const report = path.join(outputDir, "playwright.json");
-  const result = spawnSync(process.execPath, [path.join(projectRoot, "node_modules/@playwright/test/cli.js"), "test", "--config", "tests/e2e/playwright.config.ts"], {
+  const child = spawn(process.execPath, [path.join(projectRoot, "node_modules/@playwright/test/cli.js"), "test", "--config", "tests/e2e/playwright.config.ts"], {
     cwd: projectRoot,
     env,
     stdio: "inherit",
+  });
+  const result = await new Promise<{ status: number | null }>((resolve) => {
+    child.once("error", () => resolve({ status: 1 }));
+    child.once("exit", (code) => resolve({ status: code }));
   });
   const json = readJson(report);
   if (!json?.stats) return { suite: "playwright", passed: 0, failed: 1, skipped: 0 };
@@ -103,7 +109,7 @@ async function main(): Promise<number> {
     stack.supervisor.onRestart = (name, code, delayMs) => log(`${name} exited (status ${code}); starting it again in ${delayMs / 1000} s (see tests/.output/stack/${name}.log).`);
     stack.supervisor.onUnexpectedExit = (name, code) => log(`${name} exited unexpectedly (status ${code}); see tests/.output/stack/${name}.log.`);
     try {
-      counts.push(runPlaywright({ ...stack.env }));
+      counts.push(await runPlaywright({ ...stack.env }));
     } finally {
       await stack.stop();
     }
