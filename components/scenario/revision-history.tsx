@@ -71,24 +71,8 @@ export function RevisionHistory({ workspace, scenarioId }: { workspace: string; 
         <CardBody className="flex flex-col gap-4">
           {revisions.data && (
             <div className="flex flex-wrap gap-3">
-              <Field label="From revision" className="w-40">
-                <Select value={left ?? ""} onChange={(e) => setFrom(Number(e.target.value))}>
-                  {revisions.data.map((r) => (
-                    <option key={r.revision} value={r.revision}>
-                      {r.revision}
-                    </option>
-                  ))}
-                </Select>
-              </Field>
-              <Field label="To revision" className="w-40">
-                <Select value={right ?? ""} onChange={(e) => setTo(Number(e.target.value))}>
-                  {revisions.data.map((r) => (
-                    <option key={r.revision} value={r.revision}>
-                      {r.revision}
-                    </option>
-                  ))}
-                </Select>
-              </Field>
+              <RevisionSelect label="From revision" revisions={revisions.data} value={left} onChange={setFrom} />
+              <RevisionSelect label="To revision" revisions={revisions.data} value={right} onChange={setTo} />
             </div>
           )}
           {a.isError || b.isError ? (
@@ -127,5 +111,19 @@ export function RevisionHistory({ workspace, scenarioId }: { workspace: string; 
         </CardBody>
       </Card>
     </div>
+  );
+}
+
+function RevisionSelect({ label, revisions, value, onChange }: { label: string; revisions: { revision: number }[]; value: number | undefined | null; onChange: (revision: number) => void }) {
+  return (
+    <Field label={label} className="w-40">
+      <Select value={value ?? ""} onChange={(e) => onChange(Number(e.target.value))}>
+        {revisions.map((r) => (
+          <option key={r.revision} value={r.revision}>
+            {r.revision}
+          </option>
+        ))}
+      </Select>
+    </Field>
   );
 }
