@@ -287,6 +287,7 @@ export const TIME_VARYING_METHODS = {
   modifiedLoad: "modified offered load approximation",
   periodic: "M(t)/M/N/N periodic exact solution",
   periodicQueue: "M(t)/M/N/N+Q periodic exact solution",
+  periodicRetrial: "periodic retrial exact chain",
 } as const;
 
 function timeVaryingRule(method: "pointwise stationary approximation" | "modified offered load approximation"): ReferenceRule {
@@ -379,6 +380,35 @@ const periodicQueueRule: ReferenceRule = {
     };
   },
 };
+
+/** Retrials under a time-varying load: the periodic chain on (calls, orbit), bracketed by two bounding laws. */
+const periodicRetrialRule: ReferenceRule = {
+  method: TIME_VARYING_METHODS.periodicRetrial,
+  limits: `interactive up to about ${tt.INTERACTIVE_PERIODIC_RETRIAL_WORK} state updates (2 × states × uniformisation terms × cycles); at most ${tt.MAX_PERIODIC_RETRIAL_WORK}; the orbit is capped where its tail is below ${tt.TRUNCATION_BOUND}`,
+  interactiveWork: tt.INTERACTIVE_PERIODIC_RETRIAL_WORK,
+  work: (s, f) => (s.arrivals.process === "time-varying" ? tt.periodicRetrialWork(periodicRetrialInput(s, f)!) : 0),
+  applies: (s, f) =>
+    s.arrivals.process === "time-varying" && f.exponentialHolding && periodicRetrialInput(s, f)
+      ? {
+          exact: true,
+          assumptions: `Poisson fresh calls at the profile's piecewise-constant periodic rate, exponential holding, ${f.waiting ? `FIFO waiting with Q positions${s.patience ? ", exponential patience" : ""}, ` : ""}refused calls retry with the persistence after exponential delays, no attempt limit; the periodic steady state of the forward equations (errors below the stated bound)`,
+        }
+      : undefined,
+  compute(s, f) {
+    const r = tt.periodicRetrialSystem(periodicRetrialInput(s, f)!);
+    return {
+      ...retrialValues(r, f),
+      truncationBound: Math.max(r.errorBound, r.neglectedMass),
+      segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, callCongestion: g.firstAttemptBlocking, timeCongestion: g.timeCongestion })),
+    };
+  },
+};
+
+function periodicRetrialInput(s: Scenario, f: Facts): tt.PeriodicRetrialInput | undefined {
+  const r = exactRetrials(s, f);
+  if (s.arrivals.process !== "time-varying" || !r) return undefined;
+  return { servers: f.n, waitingPositions: s.waitingPositions, profile: s.arrivals.profile, meanHolding: f.h, ...r };
+}
 
 /** Every reference the lab can set beside a run, in the order they are shown. */
 export const referenceRules: ReferenceRule[] = [
@@ -515,7 +545,7 @@ export const referenceRules: ReferenceRule[] = [
   },
   {
     method: "overflow network exact chain",
-    limits: `interactive while (N + Q + 1) × K³ <= ${INTERACTIVE_OVERFLOW_WORK} (K = Π(nᵢ + 1)); direct solve up to ${tt.MAX_OVERFLOW_WORK}, Gauss–Seidel beyond (loss only), up to ${tt.MAX_OVERFLOW_STATES} states`,
+    limits: `interactive while (N + Q + 1) × K³ <= ${INTERACTIVE_OVERFLOW_WORK} (K = Π(nᵢ + 1)); direct solve up to ${tt.MAX_OVERFLOW_WORK}, Gauss–Seidel beyond, up to ${tt.MAX_OVERFLOW_STATES} states`,
     interactiveWork: INTERACTIVE_OVERFLOW_WORK,
     work: (s, f) => (s.arrivals.process === "overflow" ? (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 : 0),
     applies: (s, f) =>
@@ -605,6 +635,7 @@ export const referenceRules: ReferenceRule[] = [
   },
   periodicRule,
   periodicQueueRule,
+  periodicRetrialRule,
   timeVaryingRule("pointwise stationary approximation"),
   timeVaryingRule("modified offered load approximation"),
 ];
@@ -641,7 +672,7 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
   {
     when: (s, f) => s.arrivals.process === "renewal" && f.retrying,
     reason:
-      "renewal arrivals with retrials beyond the embedded chain's reach: it is dense in (calls, orbit) (N, Q <= 200, 3000 states) and sums the chain between arrivals over the interarrival law term by term, so long-tailed laws (lognormal, Weibull, Pareto, hyperexponential, gamma with cv > 1 against fast retries) need more than its 20 000 terms; an implementation limit, not a mathematical one",
+      "renewal arrivals with retrials beyond the embedded chain's size: it is dense in (calls, orbit) (N, Q <= 200, 3000 states, the orbit capped where its tail is below 1e-12) and sums the chain between arrivals term by term until the group has emptied (at most 20 000 terms); a computational limit of this method, not a mathematical one",
   },
   {
     when: (s, f) => {
@@ -653,13 +684,8 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
     reason: `retrials on overflow arrivals beyond the banded solve: the exact chain has Π(nᵢ + 1) × (N + Q + 1) states per orbit level and its band is two levels wide, so it needs (orbit cap + 1) × level × (2 level + 1) stored entries, more than ${tt.MAX_ORBIT_BAND} already at the first orbit cap; a memory limit of this method, not a mathematical one`,
   },
   {
-    when: (s, f) => s.arrivals.process === "overflow" && f.waiting && (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) ** 3 > tt.MAX_OVERFLOW_WORK,
-    reason: `overflow traffic with a waiting room beyond the direct solve's size ((N + Q + 1) × Π(nᵢ + 1)³ > ${tt.MAX_OVERFLOW_WORK}): the exact chain exists, but only the loss system has the iterative solver for larger networks; not implemented`,
-  },
-  {
-    when: (s, f) => s.arrivals.process === "time-varying" && f.retrying,
-    reason:
-      "retrials under a time-varying load: the periodic forward equations of the two-dimensional chain (busy servers, calls retrying), truncated in the orbit, would give it; not implemented",
+    when: (s, f) => s.arrivals.process === "overflow" && (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) > tt.MAX_OVERFLOW_STATES,
+    reason: `overflow network beyond ${tt.MAX_OVERFLOW_STATES} states (Π(nᵢ + 1) × (N + Q + 1): every primary group's busy count is part of the state): the exact chain exists but is too large to solve here; equivalent random and Hayward are the approximations shown`,
   },
   {
     when: (s, f) =>

@@ -175,7 +175,7 @@ function segmentEstimates(scenario: Scenario, stats: readonly ReplicationRecord[
   const valuesOf = (method: string) => references.find((r) => r.method === method && !r.unavailable)?.segments;
   const psa = valuesOf(TIME_VARYING_METHODS.pointwise);
   const mol = valuesOf(TIME_VARYING_METHODS.modifiedLoad);
-  const exact = valuesOf(TIME_VARYING_METHODS.periodic) ?? valuesOf(TIME_VARYING_METHODS.periodicQueue);
+  const exact = valuesOf(TIME_VARYING_METHODS.periodic) ?? valuesOf(TIME_VARYING_METHODS.periodicQueue) ?? valuesOf(TIME_VARYING_METHODS.periodicRetrial);
   const sum = (v: number[]) => v.reduce((x, y) => x + y, 0);
   let start = 0;
   return a.profile.map((segment, i) => {

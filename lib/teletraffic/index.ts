@@ -201,6 +201,16 @@ export {
   type PeriodicQueueSegment,
 } from "./periodic-loss";
 export {
+  periodicRetrialInputSchema,
+  periodicRetrialSystem,
+  periodicRetrialWork,
+  INTERACTIVE_PERIODIC_RETRIAL_WORK,
+  MAX_PERIODIC_RETRIAL_WORK,
+  type PeriodicRetrialInput,
+  type PeriodicRetrialResult,
+  type PeriodicRetrialSegment,
+} from "./periodic-retrial";
+export {
   renewalQueueInputSchema,
   renewalQueueSystem,
   renewalQueueWork,

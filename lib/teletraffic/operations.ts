@@ -45,6 +45,7 @@ import {
   periodicQueueInputSchema,
   periodicQueueSystem,
 } from "./periodic-loss";
+import { INTERACTIVE_PERIODIC_RETRIAL_WORK, MAX_PERIODIC_RETRIAL_WORK, periodicRetrialInputSchema, periodicRetrialSystem } from "./periodic-retrial";
 import { INTERACTIVE_RENEWAL_WORK, MAX_RENEWAL_WORK } from "./renewal";
 import { INTERACTIVE_MMPP_WORK, mmppQueueInputSchema, mmppQueueSystem } from "./mmpp";
 import { overflowLossInputSchema, overflowLossSystem } from "./overflow-chain";
@@ -184,6 +185,12 @@ export const analyticOperations = {
     periodicQueueInputSchema,
     periodicQueueSystem,
     `interactive up to about ${INTERACTIVE_PERIODIC_QUEUE_WORK} state updates ((N + Q + 51) × uniformisation terms over the cycles needed); at most ${MAX_PERIODIC_WORK}`,
+  ),
+  "periodic-retrial": operation(
+    "time-varying load with retrials (optional waiting positions and exponential patience): exact periodic first-attempt blocking, loss, attempts and orbit per segment and over the cycle, bracketed by two bounding laws",
+    periodicRetrialInputSchema,
+    periodicRetrialSystem,
+    `interactive up to about ${INTERACTIVE_PERIODIC_RETRIAL_WORK} state updates (2 × states × uniformisation terms × cycles); at most ${MAX_PERIODIC_RETRIAL_WORK}`,
   ),
   "overflow-loss": operation("exact overflow network beside equivalent random and Hayward", overflowLossInputSchema, overflowLossSystem),
   "multi-rate": operation("multi-rate loss link, Kaufman–Roberts recursion: per-class blocking", kaufmanRobertsInputSchema, kaufmanRoberts),

@@ -280,16 +280,23 @@ function solveOrbitModel(m: OrbitModel): OrbitChainMeasures {
   const level = phasesOf(m) * (kMax + 1);
   const cut = m.fresh.kind === "batch" ? m.fresh.cutTail : 0;
   if (m.persistence === 0) return measures(m, solveCapped(m, 0), 0, cut);
+  let previous: { cap: number; neglected: number } | undefined;
   for (let cap = FIRST_CAP; ; cap *= 2) {
     const b = bandOf(m, cap);
-    if (b.states * b.width > MAX_ORBIT_BAND)
+    if (b.states * b.width > MAX_ORBIT_BAND) {
+      // Say what happened: the tail was still too heavy at the last cap solved (if any), and the next cap does not fit.
+      const tail = previous
+        ? `at an orbit cap of ${previous.cap} calls ${Number.isFinite(previous.neglected) ? `the estimated mass beyond is still ${previous.neglected.toExponential(1)} (bound ${TRUNCATION_BOUND})` : "the orbit's law is not yet falling off"}, and a cap of ${cap}`
+        : `already the first orbit cap (${cap} calls)`;
       throw new TeletrafficConvergenceError(
-        `the orbit of retrying calls does not settle within ${MAX_ORBIT_BAND} band entries (orbit cap ${cap}; persistence near 1 with the load near capacity, or a very long retry delay)`,
+        `${tail} needs ${b.states * b.width} band entries, more than ${MAX_ORBIT_BAND} (persistence near 1 with the load near capacity, or a very long retry delay, keep many calls retrying)`,
         0,
       );
+    }
     const pi = solveCapped(m, cap);
     const neglected = extrapolatedTail((o) => levelMass(pi, o, level), cap);
     if (neglected <= TRUNCATION_BOUND) return measures(m, pi, cap, neglected + cut);
+    previous = { cap, neglected };
   }
 }
 

@@ -36,9 +36,6 @@ export const overflowLossInputSchema = z
       ctx.addIssue({ code: "custom", path: ["servers"], message: `state space Π(n_i + 1) × (N + Q + 1) = ${states} exceeds ${MAX_OVERFLOW_STATES}` });
     }
     if (v.meanPatience !== undefined && v.waitingPositions === 0) ctx.addIssue({ code: "custom", path: ["meanPatience"], message: "needs waitingPositions > 0" });
-    // Gauss–Seidel (the fallback for large phase spaces) handles the loss system only.
-    if (v.waitingPositions > 0 && (v.servers + v.waitingPositions + 1) * k ** 3 > MAX_OVERFLOW_WORK)
-      ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: `with waiting positions only the direct solve is offered: (N + Q + 1) × Π(n_i + 1)³ must be <= ${MAX_OVERFLOW_WORK}` });
   })
   .describe("overflow network: primary groups with own Poisson traffic, overflow offered to one final group, exponential holding with a common mean");
 export type OverflowLossInput = z.input<typeof overflowLossInputSchema>;
@@ -152,16 +149,18 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
     const marginals = primaries.map((p) => erlangBStateDistribution(p.servers, p.traffic));
     let overflowMean = 0;
     for (const p of primaries) overflowMean += overflowMomentsUnchecked(p.traffic, p.servers).mean;
+    // (with a waiting room: the loss system's law over the servers, a thin geometric tail over the queue)
     const finalGuess = erlangBStateDistribution(n, overflowMean);
-    const initial = new Float64Array(k * (n + 1));
+    const initial = new Float64Array(k * (capacity + 1));
     for (let phase = 0; phase < k; phase++) {
       let theta = 1;
       primaries.forEach((_, i) => (theta *= marginals[i][digit(phase, i)]));
-      for (let j = 0; j <= n; j++) initial[j * k + phase] = theta * finalGuess[j] + 1e-300;
+      for (let j = 0; j <= capacity; j++) initial[j * k + phase] = theta * (j <= n ? finalGuess[j] : finalGuess[n] * 0.5 ** (j - n)) + 1e-300;
     }
-    const states = k * (n + 1);
+    const states = k * (capacity + 1);
     const maxSweeps = Math.max(100, Math.floor(MAX_GAUSS_SEIDEL_WORK / states));
-    const solved = gaussSeidelEnvironmentLossChain(n, { phases: k, inStart, inFrom, inRate, outRate }, up, 1, initial, GAUSS_SEIDEL_TOLERANCE, maxSweeps);
+    const death = Float64Array.from({ length: capacity + 1 }, (_, j) => Math.min(j, n) + Math.max(0, j - n) * alpha);
+    const solved = gaussSeidelEnvironmentLossChain(capacity, { phases: k, inStart, inFrom, inRate, outRate }, up, death, initial, GAUSS_SEIDEL_TOLERANCE, maxSweeps);
     if (!solved) throw new TeletrafficConvergenceError(`overflowLossSystem: Gauss–Seidel did not converge within ${maxSweeps} sweeps`, maxSweeps);
     pi = solved.pi;
     solver = `Gauss–Seidel (${solved.sweeps} sweeps, L1 change <= ${GAUSS_SEIDEL_TOLERANCE}, residual ${solved.residual.toExponential(1)})`;

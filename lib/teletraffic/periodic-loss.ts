@@ -35,12 +35,12 @@ import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, time
  */
 
 /** Λτ per uniformisation step: large enough that the Poisson spread costs little (about 2.1 × Λτ terms per step). */
-const STEP_MEAN = 100;
+export const STEP_MEAN = 100;
 /** Tail mass of the Poisson weights left out per step. */
 const STEP_TAIL = 1e-25;
 
 /** Work units (state updates, i.e. (N + 1) × uniformisation terms) answered interactively, about 100 ms. */
-export const INTERACTIVE_PERIODIC_WORK = 30_000_000;
+export const INTERACTIVE_PERIODIC_WORK = 25_000_000;
 export const MAX_PERIODIC_WORK = 3_000_000_000;
 /** The same for the chain with waiting positions ((N + Q + 1 + 50) × terms × cycles; the occupation vector is kept). */
 export const INTERACTIVE_PERIODIC_QUEUE_WORK = 12_000_000;
@@ -52,6 +52,9 @@ const toleranceField = z
   .default(1e-12)
   .describe("bound on the absolute error of every blocking value, default 1e-12; where rounding stops the iteration first, errorBound says how close it got");
 
+const wellFormedGroup = (servers: unknown, waitingPositions: unknown) =>
+  Number.isInteger(servers) && (servers as number) >= 1 && Number.isInteger(waitingPositions) && (waitingPositions as number) >= 0;
+
 export const periodicLossInputSchema = z
   .object({
     servers: timeVaryingServersField,
@@ -61,6 +64,8 @@ export const periodicLossInputSchema = z
   })
   .superRefine((v, ctx) => {
     refineProfileHasTraffic(v.profile, ctx);
+    // zod runs this refinement even when a field failed: size the work only for a well-formed group
+    if (!wellFormedGroup(v.servers, 0)) return;
     const work = periodicLossWork(v.servers, v.profile, v.meanHolding, v.tolerance);
     if (work > MAX_PERIODIC_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_WORK} state updates` });
   })
@@ -293,19 +298,17 @@ interface SegmentPlan {
   equilibrium?: Float64Array;
 }
 
-function planSegment(m: BirthDeath, start: number, duration: number, rate: number, kappa: number, h: number): SegmentPlan {
-  const big = rate + deathOf(m, m.capacity);
-  const steps = Math.max(1, Math.ceil((big * duration) / STEP_MEAN));
-  const tau = duration / steps;
-  const theta = big * tau;
+/**
+ * Poisson(θ) weights w_k for k = 0..K, cut where the mass left beyond K is below STEP_TAIL, with
+ * P(X > k) for each k and a bound on the left-out mass (shared by every uniformised periodic chain).
+ */
+export function uniformisationWeights(theta: number): { weights: Float64Array; tail: Float64Array; massLeft: number } {
   const weights: number[] = [];
   let w = Math.exp(-theta);
-  let cumulative = 0;
   let k = 0;
   let leftBound = Infinity;
   for (;;) {
     weights.push(w);
-    cumulative += w;
     // Σ_{j>k} w_j <= w_{k+1} / (1 − θ/(k+2)) once k + 2 > θ (ratios θ/j below θ/(k+2)).
     const next = (w * theta) / (k + 1);
     if (k + 2 > theta) {
@@ -315,12 +318,22 @@ function planSegment(m: BirthDeath, start: number, duration: number, rate: numbe
     w = next;
     k++;
   }
-  const tailOverBig = new Float64Array(weights.length);
+  const tail = new Float64Array(weights.length);
   let c = 0;
   for (let j = 0; j < weights.length; j++) {
     c += weights[j];
-    tailOverBig[j] = Math.max(0, 1 - c) / big;
+    tail[j] = Math.max(0, 1 - c);
   }
+  return { weights: Float64Array.from(weights), tail, massLeft: leftBound };
+}
+
+function planSegment(m: BirthDeath, start: number, duration: number, rate: number, kappa: number, h: number): SegmentPlan {
+  const big = rate + deathOf(m, m.capacity);
+  const steps = Math.max(1, Math.ceil((big * duration) / STEP_MEAN));
+  const tau = duration / steps;
+  const theta = big * tau;
+  const { weights, tail, massLeft: leftBound } = uniformisationWeights(theta);
+  const tailOverBig = tail.map((x) => x / big);
   // Left-out part of the integral: (1/Λ) Σ_{j>K} P(X > j) <= (1/Λ) E[X 1{X > K}] = τ P(X >= K) <= τ (w_K + tail).
   const integralLeft = tau * (weights[weights.length - 1] + leftBound);
   return {
@@ -331,7 +344,7 @@ function planSegment(m: BirthDeath, start: number, duration: number, rate: numbe
     steps,
     theta,
     tau,
-    weights: Float64Array.from(weights),
+    weights,
     tailOverBig,
     massLeft: leftBound,
     integralLeft,
@@ -573,6 +586,7 @@ export const periodicQueueInputSchema = z
   })
   .superRefine((v, ctx) => {
     refineProfileHasTraffic(v.profile, ctx);
+    if (!wellFormedGroup(v.servers, v.waitingPositions)) return;
     const work = periodicQueueWork(v.servers, v.waitingPositions, v.profile, v.meanHolding, v.meanPatience, v.tolerance);
     if (!Number.isFinite(work))
       ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: "without patience this waiting room is overloaded for most of the cycle: no contraction bound, so no error bound can be stated" });

@@ -219,26 +219,28 @@ export interface SparsePhaseProcess {
 
 /**
  * Same chain as solveEnvironmentLossChain, solved by Gauss–Seidel sweeps (level by level, phase by
- * phase) for phase spaces too large for dense k×k blocks. Stops when a sweep changes π by at most
- * `tolerance` in L1, the arrival-weighted mass of level N changes by at most 1e-12 relative, and
- * the residual ‖πQ‖₁ / max rate is below 1e-11; returns null if that does
- * not happen within maxSweeps (the caller reports non-convergence; no partial result is used).
+ * phase) for phase spaces too large for dense k×k blocks. Levels 0..capacity (calls at the group;
+ * those beyond the servers wait), leaving level j at rate death[j] (busy servers × μ plus waiting
+ * calls × patience rate). Stops when a sweep changes π by at most `tolerance` in L1, the
+ * arrival-weighted mass of the top level changes by at most 1e-12 relative, and the residual
+ * ‖πQ‖₁ / max rate is below 1e-11; returns null if that does not happen within maxSweeps (the
+ * caller reports non-convergence; no partial result is used).
  */
 export function gaussSeidelEnvironmentLossChain(
-  servers: number,
+  capacity: number,
   process: SparsePhaseProcess,
   upRates: Float64Array,
-  mu: number,
+  death: Float64Array,
   initial: Float64Array,
   tolerance: number,
   maxSweeps: number,
 ): { pi: Float64Array; sweeps: number; residual: number } | null {
   const k = process.phases;
-  const n = servers;
+  const n = capacity;
   const { outRate } = process;
   const pi = Float64Array.from(initial);
   let maxRate = 0;
-  for (let l = 0; l < k; l++) maxRate = Math.max(maxRate, outRate[l] + upRates[l] + n * mu);
+  for (let l = 0; l < k; l++) maxRate = Math.max(maxRate, outRate[l] + upRates[l] + death[n]);
   // the top level carries the blocking, often tiny: its arrival-weighted mass must settle too
   let previousTop = -1;
   for (let sweep = 1; sweep <= maxSweeps; sweep++) {
@@ -246,8 +248,8 @@ export function gaussSeidelEnvironmentLossChain(
     for (let j = 0; j <= n; j++) {
       const base = j * k;
       for (let l = 0; l < k; l++) {
-        const inflow = environmentInflow(n, process, upRates, mu, pi, j, l);
-        const out = outRate[l] + (j < n ? upRates[l] : 0) + j * mu;
+        const inflow = environmentInflow(n, process, upRates, death, pi, j, l);
+        const out = outRate[l] + (j < n ? upRates[l] : 0) + death[j];
         const value = out > 0 ? inflow / out : pi[base + l];
         change += Math.abs(value - pi[base + l]);
         pi[base + l] = value;
@@ -261,7 +263,7 @@ export function gaussSeidelEnvironmentLossChain(
     const topSettled = Math.abs(top - previousTop) <= 1e-12 * top;
     previousTop = top;
     if (change / total <= tolerance && topSettled) {
-      const residual = environmentResidual(n, process, upRates, mu, pi) / maxRate;
+      const residual = environmentResidual(n, process, upRates, death, pi) / maxRate;
       if (residual <= 1e-11) return { pi, sweeps: sweep, residual };
     }
   }
@@ -269,26 +271,26 @@ export function gaussSeidelEnvironmentLossChain(
 }
 
 /** Probability flow into state (level j, phase l) of the environment loss chain. */
-function environmentInflow(n: number, process: SparsePhaseProcess, upRates: Float64Array, mu: number, pi: Float64Array, j: number, l: number): number {
+function environmentInflow(n: number, process: SparsePhaseProcess, upRates: Float64Array, death: Float64Array, pi: Float64Array, j: number, l: number): number {
   const k = process.phases;
   const { inStart, inFrom, inRate } = process;
   const base = j * k;
   let inflow = 0;
   for (let e = inStart[l]; e < inStart[l + 1]; e++) inflow += pi[base + inFrom[e]] * inRate[e];
   if (j > 0) inflow += pi[base - k + l] * upRates[l];
-  if (j < n) inflow += pi[base + k + l] * (j + 1) * mu;
+  if (j < n) inflow += pi[base + k + l] * death[j + 1];
   return inflow;
 }
 
 /** ‖π Q‖₁ for the environment loss chain. */
-function environmentResidual(n: number, process: SparsePhaseProcess, upRates: Float64Array, mu: number, pi: Float64Array): number {
+function environmentResidual(n: number, process: SparsePhaseProcess, upRates: Float64Array, death: Float64Array, pi: Float64Array): number {
   const k = process.phases;
   const { outRate } = process;
   let residual = 0;
   for (let j = 0; j <= n; j++) {
     for (let l = 0; l < k; l++) {
-      const inflow = environmentInflow(n, process, upRates, mu, pi, j, l);
-      residual += Math.abs(inflow - pi[j * k + l] * (outRate[l] + (j < n ? upRates[l] : 0) + j * mu));
+      const inflow = environmentInflow(n, process, upRates, death, pi, j, l);
+      residual += Math.abs(inflow - pi[j * k + l] * (outRate[l] + (j < n ? upRates[l] : 0) + death[j]));
     }
   }
   return residual;

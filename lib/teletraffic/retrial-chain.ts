@@ -329,11 +329,17 @@ export function markovSystemStates(model: MarkovSystemModel, cap = 64): number {
 }
 
 export function solveMarkovSystem(model: MarkovSystemModel, maxStates = MAX_MARKOV_STATES): MarkovSystemMeasures {
+  const { pi, cap, neglected } = solveWithCap(model, maxStates);
+  return measures(model, pi, cap, neglected);
+}
+
+/** The stationary law (level-major, orbit capped where the neglected mass is below TRUNCATION_BOUND), its cap and the estimated mass beyond. */
+function solveWithCap(model: MarkovSystemModel, maxStates: number): { pi: Float64Array; cap: number; neglected: number } {
   const width = capacityOf(model) + 1;
   const bounded = boundedOrbit(model);
   if (bounded !== undefined) {
     if ((bounded + 1) * width > maxStates) throw inputError("sources", `the chain has ${(bounded + 1) * width} states, more than ${maxStates}`);
-    return measures(model, solveCapped(model, bounded), bounded, 0);
+    return { pi: solveCapped(model, bounded), cap: bounded, neglected: 0 };
   }
   let cap = 64;
   for (;;) {
@@ -345,7 +351,28 @@ export function solveMarkovSystem(model: MarkovSystemModel, maxStates = MAX_MARK
     }
     const pi = solveCapped(model, cap);
     const neglected = extrapolatedTail((o) => levelMass(pi, o, width), cap);
-    if (neglected <= TRUNCATION_BOUND) return measures(model, pi, cap, neglected);
+    if (neglected <= TRUNCATION_BOUND) return { pi, cap, neglected };
     cap *= 2;
   }
+}
+
+/**
+ * The smallest orbit cap M at which the stationary chain leaves at most `bound` (estimated) mass at
+ * or beyond M: P(o >= M) from the solved levels plus the extrapolated tail beyond the solve's cap.
+ */
+export function stationaryOrbitCap(model: MarkovSystemModel, bound = TRUNCATION_BOUND, maxStates = MAX_MARKOV_STATES): { cap: number; tail: number } {
+  const { pi, cap, neglected } = solveWithCap(model, maxStates);
+  const width = capacityOf(model) + 1;
+  let tail = neglected;
+  for (let o = cap; o >= 1; o--) {
+    const next = tail + levelMass(pi, o, width);
+    if (next > bound) return { cap: o + 1, tail };
+    tail = next;
+  }
+  return { cap: 1, tail };
+}
+
+/** Stationary law of the chain with the orbit capped at `cap` (refusals at the cap lost), level-major: index o (K + 1) + k. */
+export function cappedStationaryLaw(model: MarkovSystemModel, cap: number): Float64Array {
+  return solveCapped(model, cap);
 }

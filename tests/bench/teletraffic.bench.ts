@@ -22,6 +22,9 @@ import {
   streamPeakedness,
   timeVaryingLoss,
   periodicLossSystem,
+  periodicLossWork,
+  periodicRetrialSystem,
+  periodicRetrialWork,
 } from "../../lib/teletraffic";
 
 function time<T>(label: string, run: () => T, describe: (result: T) => string, repetitions = 9): void {
@@ -78,7 +81,10 @@ export async function runTeletrafficBench(): Promise<void> {
   ratio("GI/M/N/N empirical, 1 000 samples, N = 2 000", unit, () => renewalLossSystem({ servers: 2000, interarrival: { law: "empirical", samples: Array.from({ length: 1000 }, (_, i) => (2 * (i + 0.5)) / 1000 / 1900) } }), (r) => `call ${r.callCongestion.toPrecision(6)}`);
   ratio("peakedness of a Pareto renewal stream + ER and Hayward, N = 1 000", unit, () => streamPeakedness({ stream: { process: "renewal", interarrival: { law: "pareto", mean: 1 / 950, shape: 2.2 } }, servers: 1000 }), (r) => `Z ${r.peakedness.toPrecision(6)}`);
   ratio("time-varying, 100 segments, N = 2 000 (PSA + MOL)", unit, () => timeVaryingLoss({ servers: 2000, profile: Array.from({ length: 100 }, (_, i) => ({ duration: 1, rate: 1800 + 200 * Math.sin(i / 5) })) }), (r) => `MOL ${r.modifiedLoadCallCongestion.toPrecision(6)}`);
-  ratio("time-varying exact periodic, 24 segments of 10 h, N = 100 (3·10^7 work)", unit, () => periodicLossSystem({ servers: 100, profile: Array.from({ length: 24 }, (_, i) => ({ duration: 10, rate: 100 * (0.8 + 0.3 * Math.sin(i / 4)) })) }), (r) => `call ${r.callCongestion.toPrecision(6)}, bound ${r.errorBound.toExponential(1)}`);
+  const daily = Array.from({ length: 20 }, (_, i) => ({ duration: 10, rate: 100 * (0.8 + 0.3 * Math.sin(i / 4)) }));
+  ratio(`time-varying exact periodic, 20 segments of 10 h, N = 100 (${periodicLossWork(100, daily, 1).toPrecision(2)} work)`, unit, () => periodicLossSystem({ servers: 100, profile: daily }), (r) => `call ${r.callCongestion.toPrecision(6)}, bound ${r.errorBound.toExponential(1)}`);
+  const retrying = { servers: 12, profile: Array.from({ length: 8 }, (_, i) => ({ duration: 1, rate: 12 * (0.7 + 0.35 * Math.sin(i / 2)) })), persistence: 0.8, meanRetryDelay: 1 };
+  ratio(`time-varying with retrials, 8 segments, N = 12 (${periodicRetrialWork(retrying).toPrecision(2)} work)`, unit, () => periodicRetrialSystem(retrying), (r) => `loss ${r.lossProbability.toPrecision(6)}, ${r.states} states, ${r.cycles} cycles, bound ${r.errorBound.toExponential(1)}`);
   ratio("Erlang C sizing A = 10^5, P(W > 0.1) <= 0.2", unit, () => erlangCServers({ traffic: 100_000, target: 0.2, measure: "wait-beyond-limit", waitLimit: 0.1 }), (r) => `N = ${r.servers}`);
   ratio("Engset sizing S = 10^6, call congestion 1 %", unit, () => engsetServers({ sources: 1_000_000, idleRate: 0.01, target: 0.01 }), (r) => `N = ${r.servers}`);
   ratio("Engset inverse S = 10^5, N = S − 1 (worst case)", unit, () => engsetIdleRateForOfferedTraffic({ sources: 100_000, servers: 99_999, attemptPerSource: 0.5 }), (r) => `${r.iterations} steps, bound ${r.errorBound.toExponential(1)}`);

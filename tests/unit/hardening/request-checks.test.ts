@@ -95,5 +95,14 @@ describe("analytic pool helpers (issue #10 items 2 and 6)", () => {
     expect(exceedsInteractiveLimit("overflow-loss", { primaries: "malformed", servers: 3 })).toBeNull();
     expect(exceedsInteractiveLimit("erlang-b", { servers: 10_000_000, traffic: 9e6 })).toBeNull();
     expect(exceedsInteractiveLimit("overflow-loss", "not an object")).toBeNull();
+    // The time-varying methods by their own work estimates (about 6·10⁸, 1·10⁹ and 9·10⁸ here): beyond 2 s, within the schemas' largest.
+    const daily = (segments: number, duration: number, rate: number) => Array.from({ length: segments }, (_, i) => ({ duration, rate: rate * (1 + 0.2 * Math.sin(i)) }));
+    const heavy = exceedsInteractiveLimit("periodic-loss", { servers: 300, profile: daily(50, 10, 280) });
+    expect(heavy?.measure).toMatch(/estimated work/);
+    expect(heavy!.size).toBeGreaterThan(heavy!.max);
+    expect(exceedsInteractiveLimit("periodic-loss", { servers: 10, profile: daily(4, 1, 8) })).toBeNull();
+    expect(exceedsInteractiveLimit("periodic-queue", { servers: 300, waitingPositions: 50, meanPatience: 1, profile: daily(50, 10, 280) })?.measure).toMatch(/estimated work/);
+    expect(exceedsInteractiveLimit("time-varying-loss", { servers: 100_000, profile: daily(1000, 1, 90_000) })?.measure).toMatch(/estimated work/);
+    expect(exceedsInteractiveLimit("periodic-loss", { servers: -1, profile: daily(2, 1, 1) })).toBeNull(); // malformed: the schema answers
   });
 });

@@ -49,7 +49,7 @@ describe("references registry", () => {
     expect(exactFor(arrivals[3], features[0][1])).toBe(true); // Weibull renewal
     expect(exactFor(arrivals[3], features[2][1])).toBe(true); // Weibull renewal with waiting and patience (GI/M/N/N+Q)
     expect(exactFor(arrivals[3], features[4][1])).toBe(true); // Weibull renewal with retrials (cv 0.6: a short tail)
-    expect(exactFor({ process: "renewal", interarrival: { law: "lognormal", mean: 0.25, cv: 2 } }, features[4][1])).toBe(false); // long tail: beyond the series
+    expect(exactFor({ process: "renewal", interarrival: { law: "lognormal", mean: 0.25, cv: 2 } }, features[4][1])).toBe(true); // long tail: the series ends once the group has emptied
     expect(exactFor(arrivals[1], features[4][1])).toBe(true); // MMPP retrials
     expect(exactFor(arrivals[2], { ...features[4][1], ...features[2][1] })).toBe(true); // on-off retrials with waiting and patience
     expect(exactFor(arrivals[4], features[4][1])).toBe(true); // batch retrials
@@ -61,6 +61,9 @@ describe("references registry", () => {
     expect(exactFor(arrivals[7], features[0][1])).toBe(true); // time-varying: the exact periodic solution
     expect(exactFor(arrivals[7], features[1][1])).toBe(true); // time-varying with waiting positions: the exact periodic N + Q chain
     expect(exactFor(arrivals[7], features[2][1])).toBe(true); // … and with exponential patience
+    expect(exactFor(arrivals[7], features[4][1])).toBe(true); // time-varying with retrials: the periodic retrial chain
+    expect(exactFor(arrivals[7], { ...features[4][1], ...features[2][1] })).toBe(true); // … also with waiting and patience
+    expect(exactFor(arrivals[7], features[5][1])).toBe(false); // … but not with an attempt limit
   });
   it("non-exponential holding: Erlang B and Engset stay exact (insensitivity), the chains do not", () => {
     const lognormal = { law: "lognormal" as const, mean: 1, cv: 2 };
@@ -119,6 +122,18 @@ describe("references registry", () => {
     const lognormal = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[7], holding: { law: "lognormal", mean: 1, cv: 2 }, run }));
     expect(lognormal.some((r) => r.method === "M(t)/M/N/N periodic exact solution")).toBe(false);
     expect(lognormal.find((r) => r.method === "exact reference")!.unavailable).toMatch(/no insensitivity/);
+  });
+  it("time-varying load with retrials: the periodic retrial chain's first-attempt blocking per segment and its loss beside extended Erlang B's", () => {
+    const refs = referencesFor(parseScenario({ servers: 5, arrivals: arrivals[7], holding: exponential(1), run, ...features[4][1] }));
+    const exact = refs.find((r) => r.method === "periodic retrial exact chain")!;
+    expect(exact.exact).toBe(true);
+    expect(exact.segments).toHaveLength(2);
+    expect(exact.truncationBound).toBeLessThanOrEqual(1e-9);
+    // First attempts see the segment's time average (PASTA within a segment): the cycle value is their call-weighted mean.
+    expect(exact.callCongestion).toBeCloseTo((4 * exact.segments![0].callCongestion + 9 * exact.segments![1].callCongestion) / 13, 9);
+    expect(exact.lossProbability).toBeGreaterThan(0);
+    expect(exact.attemptsPerCall).toBeGreaterThan(1);
+    expect(refs.some((r) => r.method === "exact reference")).toBe(false);
   });
   it("an interactive caller gets large cases flagged as background work, not computed", () => {
     const k = 16;

@@ -4,7 +4,7 @@ import { describe, expect, it } from "vitest";
 import { formatNumber } from "../../../lib/cli/command";
 import { segmentTable, simulationTable } from "../../../lib/cli/simulation-commands";
 import { parseScenario, referencesFor, type ScenarioInput, type SimulationResult } from "../../../lib/simulation/node";
-import { periodicLossSystem, timeVaryingLoss } from "../../../lib/teletraffic";
+import { periodicLossSystem, periodicRetrialSystem, timeVaryingLoss } from "../../../lib/teletraffic";
 import { simulateReference } from "./helpers";
 
 const profile = [
@@ -75,12 +75,18 @@ describe("simulate's per-segment table", () => {
     expect(row.slice(3, 5)).toEqual(["0", "< 0.002 (one-sided)"]);
   });
 
-  it("with retrials adds the per-segment loss and leaves out the references that assume blocked calls cleared", () => {
-    const r = run({ ...input, servers: 4, arrivals: { process: "time-varying", profile: profile.slice(0, 2) }, retrials: { persistence: 0.5, delay: { law: "exponential", mean: 0.5 } }, run: { seed: 5, replications: 4, callsPerReplication: 800 } });
+  it("with retrials adds the per-segment loss and the periodic retrial chain's first-attempt blocking, and leaves out PSA and MOL (they assume blocked calls cleared)", () => {
+    const retrying: ScenarioInput = { ...input, servers: 4, arrivals: { process: "time-varying", profile: profile.slice(0, 2) }, retrials: { persistence: 0.5, delay: { law: "exponential", mean: 0.5 } }, run: { seed: 5, replications: 4, callsPerReplication: 800 } };
+    const r = run(retrying);
     const table = segmentTable(r);
     const header = cells(table.find((l) => l.startsWith("time in cycle"))!);
-    expect(header).toEqual(["time in cycle", "offered (E)", "calls", "call congestion", "95% CI", "time congestion", "loss", "loss 95% CI"]);
+    expect(header).toEqual(["time in cycle", "offered (E)", "calls", "call congestion", "95% CI", "time congestion", "loss", "loss 95% CI", "exact"]);
     const rows = table.slice(table.findIndex((l) => l.startsWith("time in cycle")) + 2).map(cells);
-    rows.forEach((row, i) => expect(row[6]).toBe(six(r.segments![i].lossProbability!.estimate)));
+    // Independent value: lib/teletraffic's periodic retrial chain for the same profile.
+    const exact = periodicRetrialSystem({ servers: 4, profile: profile.slice(0, 2), persistence: 0.5, meanRetryDelay: 0.5 });
+    rows.forEach((row, i) => {
+      expect(row[6]).toBe(six(r.segments![i].lossProbability!.estimate));
+      expect(row[8]).toBe(six(exact.segments[i].firstAttemptBlocking));
+    });
   });
 });

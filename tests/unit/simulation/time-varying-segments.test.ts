@@ -17,7 +17,7 @@ import {
   type PartialAggregate,
   type ScenarioInput,
 } from "../../../lib/simulation/node";
-import { periodicLossSystem, timeVaryingLoss } from "../../../lib/teletraffic";
+import { periodicLossSystem, periodicRetrialSystem, timeVaryingLoss } from "../../../lib/teletraffic";
 import { coverageRegion, expectAgrees, simulateReference } from "./helpers";
 
 const exp1 = { law: "exponential", mean: 1 } as const;
@@ -137,6 +137,35 @@ describe("coverage of the per-segment intervals", () => {
       });
     }
     const counts = [...[0, 1, 3].map((i) => [`segment ${i + 1} call congestion`, call[i]] as const), ...time.map((c, i) => [`segment ${i + 1} time congestion`, c] as const)];
+    for (const [what, count] of counts) {
+      expect(count, `${what}: ${count} of ${runs}`).toBeGreaterThanOrEqual(low);
+      expect(count, `${what}: ${count} of ${runs}`).toBeLessThanOrEqual(high);
+    }
+  }, 120_000);
+
+  it("with retrials, 95 % intervals of first-attempt blocking per segment, loss, attempts per call and mean orbit cover the exact periodic retrial chain in 100 fixed-seed runs", () => {
+    // The exact values: lib/teletraffic/periodic-retrial.ts, checked against a dense matrix
+    // exponential in tests/unit/teletraffic/periodic-retrial.test.ts. Same acceptance region as above
+    // (seven counts: an honest engine fails with probability below 0.014).
+    const runs = 100;
+    const { low, high } = coverageRegion(runs);
+    const retrials = { persistence: 0.7, delay: { law: "exponential", mean: 0.5 } } as const;
+    const exact = periodicRetrialSystem({ servers: 10, profile, persistence: 0.7, meanRetryDelay: 0.5 });
+    const call = [0, 0, 0, 0];
+    let loss = 0;
+    let attempts = 0;
+    let orbit = 0;
+    const covers = (ci: { ciLow: number; ciHigh: number } | undefined, value: number) => ci !== undefined && ci.ciLow <= value && value <= ci.ciHigh;
+    for (let run = 0; run < runs; run++) {
+      const r = simulateReference({ ...scenario(60_000 + run, 10, 600), retrials });
+      r.segments!.forEach((g, i) => {
+        if (covers(g.callCongestion, exact.segments[i].firstAttemptBlocking)) call[i]++;
+      });
+      if (covers(r.lossProbability, exact.lossProbability)) loss++;
+      if (covers(r.attemptsPerCall, exact.attemptsPerCall)) attempts++;
+      if (covers(r.meanRetrying, exact.meanOrbit)) orbit++;
+    }
+    const counts = [...[0, 1, 3].map((i) => [`segment ${i + 1} first-attempt blocking`, call[i]] as const), ["loss", loss], ["attempts per call", attempts], ["mean orbit", orbit]] as const;
     for (const [what, count] of counts) {
       expect(count, `${what}: ${count} of ${runs}`).toBeGreaterThanOrEqual(low);
       expect(count, `${what}: ${count} of ${runs}`).toBeLessThanOrEqual(high);

@@ -99,6 +99,7 @@ describe("operation registry", () => {
         "time-varying-loss",
         "periodic-loss",
         "periodic-queue",
+        "periodic-retrial",
         "mmpp-retrial",
         "renewal-queue",
         "renewal-retrial",
@@ -161,6 +162,7 @@ describe("operation registry", () => {
       "mmpp-retrial": { servers: 4, rates: [6, 1], switching: [[0, 1], [1, 0]], persistence: 0.6, meanRetryDelay: 0.5 },
       "batch-retrial": { servers: 4, traffic: 3, batchSize: { law: "uniform", min: 1, max: 3 }, admission: "partial", persistence: 0.6, meanRetryDelay: 0.5 },
       "periodic-queue": { servers: 10, waitingPositions: 3, profile: [{ duration: 2, rate: 4 }, { duration: 1, rate: 12 }], meanPatience: 2 },
+      "periodic-retrial": { servers: 4, profile: [{ duration: 2, rate: 2 }, { duration: 1, rate: 7 }], persistence: 0.6, meanRetryDelay: 0.5 },
       "overflow-loss": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4 },
       "overflow-retrial": { primaries: [{ traffic: 5, servers: 4 }, { traffic: 1, servers: 0 }], servers: 4, persistence: 0.6, meanRetryDelay: 0.5 },
       "multi-rate": { capacity: 20, classes: [{ traffic: 5, bandwidth: 1 }, { traffic: 1, bandwidth: 4 }] },
@@ -170,5 +172,18 @@ describe("operation registry", () => {
       expect(typeof result.method, name).toBe("string");
       expect(JSON.parse(JSON.stringify(result)), name).toEqual(result);
     }
+    // A malformed field is an input error naming a field, never an internal failure: the refinements
+    // that size the work run even when a field failed (a negative N crashed the periodic ones before).
+    const malformed = [{ servers: -1 }, { servers: 2.5 }, { servers: "x" }, { waitingPositions: -3 }, { profile: "x" }, { profile: [{ duration: -1, rate: "a" }] }, { primaries: "x" }, { rates: "x" }, { batchSize: 2 }, { interarrival: "x" }];
+    for (const [name, op] of Object.entries(analyticOperations))
+      for (const bad of malformed) {
+        const input = { ...(inputs[name] as object), ...bad };
+        if (JSON.stringify(input) === JSON.stringify(inputs[name])) continue;
+        try {
+          op.evaluate(input);
+        } catch (error) {
+          expect((error as Error).name, `${name} ${JSON.stringify(bad)}: ${(error as Error).message}`).toMatch(/^Teletraffic(Input|Convergence)Error$/);
+        }
+      }
   });
 });

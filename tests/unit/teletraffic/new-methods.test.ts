@@ -140,8 +140,9 @@ describe("GI/M/N/N for every interarrival law of the scenario file", () => {
     for (const s of [0.3, 2, 9]) {
       const ln = transformOf({ law: "lognormal", mean: 1, cv: 1.5 }).logs(s);
       expect(relativeError(Math.exp(ln.logPhi), simpson(lognormalDensity(1, 1.5), s, 1e-9, 1e4))).toBeLessThan(1e-8);
+      // Pareto: the smoothing substitution's integrand falls off a cliff; the step is halved until it settles (1e-8 before that)
       const pa = transformOf({ law: "pareto", mean: 1, shape: 2.5 }).logs(s);
-      expect(relativeError(Math.exp(pa.logPhi), simpson(paretoDensity(1, 2.5), s, 0.6, 1e7))).toBeLessThan(1e-7);
+      expect(relativeError(Math.exp(pa.logPhi), simpson(paretoDensity(1, 2.5), s, 0.6, 1e7))).toBeLessThan(1e-11);
       expect(relativeError(Math.exp(ln.logPhi) + Math.exp(ln.logOneMinusPhi), 1)).toBeLessThan(1e-12);
     }
   });

@@ -4,7 +4,7 @@
 // the Poisson retrial model of retrial-chain.ts, a different solver; persistence 0: the MMPP and
 // batch chains without retrials).
 import { describe, expect, it } from "vitest";
-import { analyticOperations, batchLossSystem, batchRetrialSystem, mmppLossSystem, mmppQueueSystem, mmppRetrialSystem, retrialLossSystem, TeletrafficInputError } from "../../../lib/teletraffic";
+import { analyticOperations, batchLossSystem, batchRetrialSystem, mmppLossSystem, mmppQueueSystem, mmppRetrialSystem, retrialLossSystem, TeletrafficConvergenceError, TeletrafficInputError } from "../../../lib/teletraffic";
 import { denseStationary, relativeError } from "./dense-chain";
 
 /**
@@ -116,5 +116,16 @@ describe("retrials on batch arrivals (exact chain on calls and orbit, binomial o
     expect(analyticOperations["batch-retrial"].evaluate({ servers: 3, traffic: 2, batchSize: { law: "uniform", min: 1, max: 3 }, admission: "partial", persistence: 0.5, meanRetryDelay: 1 }).method).toMatch(/batches/);
     expect(() => mmppRetrialSystem({ servers: 3, rates: [4, 0], switching: [[0, 1]], persistence: 0.5, meanRetryDelay: 1 })).toThrow(/switching/);
     expect(() => batchRetrialSystem({ servers: 3, traffic: 4, batchSize: { law: "fixed", value: 1 }, admission: "partial", persistence: 1, meanRetryDelay: 1 })).toThrow(TeletrafficInputError);
+  });
+  it("an orbit too large for the banded solve says where it stopped and why", () => {
+    // Load 39.8 on 40 servers, persistence 1, retries after 50 holding times: the orbit holds hundreds of calls.
+    let caught: unknown;
+    try {
+      mmppRetrialSystem({ servers: 40, rates: [39.8, 39.8], switching: [[0, 1], [1, 0]], persistence: 1, meanRetryDelay: 50 });
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(TeletrafficConvergenceError);
+    expect((caught as Error).message).toMatch(/at an orbit cap of 512 calls the orbit's law is not yet falling off, and a cap of 1024 needs \d+ band entries, more than 10000000/);
   });
 });

@@ -66,4 +66,19 @@ describe("overflow traffic with waiting positions at the final group", () => {
     expect(w.waiting).toBeDefined();
     expect(l.waiting).toBeUndefined();
   });
+  it("beyond the direct solve's size Gauss–Seidel answers with waiting positions too: patience equal to the holding time is still the loss network on N + Q servers", () => {
+    // K = 13 × 11 × 9 = 1287 primary states: (N + Q + 1) K³ ≈ 1.3e10 > MAX_OVERFLOW_WORK, so both sides take the iterative path
+    const primaries = [{ traffic: 9, servers: 12 }, { traffic: 7, servers: 10 }, { traffic: 5, servers: 8 }];
+    const w = overflowLossSystem({ primaries, servers: 3, waitingPositions: 2, meanPatience: 1 });
+    const l = overflowLossSystem({ primaries, servers: 5 });
+    expect(w.method).toContain("Gauss–Seidel");
+    expect(relativeError(w.blocking, l.blocking)).toBeLessThan(1e-9);
+    // without patience, refusal lies between the loss system on N + Q servers (waiting calls served
+    // at once) and the loss system on N (no waiting room): a sandwich any wrong solve would leave
+    const q = overflowLossSystem({ primaries, servers: 3, waitingPositions: 4 });
+    expect(q.method).toContain("Gauss–Seidel");
+    expect(q.waiting!.abandonmentProbability).toBe(0);
+    expect(q.blocking).toBeGreaterThan(overflowLossSystem({ primaries, servers: 7 }).blocking);
+    expect(q.blocking).toBeLessThan(overflowLossSystem({ primaries, servers: 3 }).blocking);
+  });
 });

@@ -51,19 +51,24 @@ describe("chain solvers of qbd.ts", () => {
     for (let i = 0; i < k; i++) expect(relativeError(gth[i], dense[i])).toBeLessThan(1e-13);
   });
   it.each([
-    [[{ traffic: 10, servers: 12 }, { traffic: 6, servers: 8 }], 12],
-    [[{ traffic: 10, servers: 15 }, { traffic: 2, servers: 2 }], 8],
-    [[{ traffic: 20, servers: 25 }, { traffic: 20, servers: 25 }], 6],
-  ])("Gauss–Seidel (from a uniform start) agrees with the direct level reduction: %j onto %i", (primaries, n) => {
+    [[{ traffic: 10, servers: 12 }, { traffic: 6, servers: 8 }], 12, 0, 0],
+    [[{ traffic: 10, servers: 15 }, { traffic: 2, servers: 2 }], 8, 0, 0],
+    [[{ traffic: 20, servers: 25 }, { traffic: 20, servers: 25 }], 6, 0, 0],
+    // waiting positions at the final group, with and without patience (rate α per waiting call)
+    [[{ traffic: 10, servers: 12 }, { traffic: 6, servers: 8 }], 5, 4, 0],
+    [[{ traffic: 20, servers: 25 }, { traffic: 20, servers: 25 }], 6, 10, 0.5],
+  ])("Gauss–Seidel (from a uniform start) agrees with the direct level reduction: %j onto %i servers, %i waiting positions, patience rate %d", (primaries, n, q, alpha) => {
     const { k, dense, up, sparse } = primariesEnvironment(primaries);
-    const direct = solveEnvironmentLossChain(n, k, dense, up, 1);
-    const gs = gaussSeidelEnvironmentLossChain(n, sparse, up, 1, new Float64Array(direct.length).fill(1 / direct.length), 1e-14, 100_000);
+    const deathOf = (j: number) => Math.min(j, n) + Math.max(0, j - n) * alpha;
+    const direct = solveEnvironmentLossChain(n + q, k, dense, up, 1, deathOf);
+    const death = Float64Array.from({ length: n + q + 1 }, (_, j) => deathOf(j));
+    const gs = gaussSeidelEnvironmentLossChain(n + q, sparse, up, death, new Float64Array(direct.length).fill(1 / direct.length), 1e-14, 100_000);
     expect(gs).not.toBeNull();
     let lostDirect = 0;
     let lostGs = 0;
     for (let phase = 0; phase < k; phase++) {
-      lostDirect += direct[n * k + phase] * up[phase];
-      lostGs += gs!.pi[n * k + phase] * up[phase];
+      lostDirect += direct[(n + q) * k + phase] * up[phase];
+      lostGs += gs!.pi[(n + q) * k + phase] * up[phase];
     }
     expect(relativeError(lostGs, lostDirect)).toBeLessThan(1e-10);
   });
