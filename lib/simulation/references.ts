@@ -687,12 +687,6 @@ export const exactLimits: Array<{ when(s: Scenario, f: Facts): boolean; reason: 
     when: (s, f) => s.arrivals.process === "overflow" && (f.n + s.waitingPositions + 1) * s.arrivals.primaries.reduce((k, p) => k * (p.servers + 1), 1) > tt.MAX_OVERFLOW_STATES,
     reason: `overflow network beyond ${tt.MAX_OVERFLOW_STATES} states (Π(nᵢ + 1) × (N + Q + 1): every primary group's busy count is part of the state): the exact chain exists but is too large to solve here; equivalent random and Hayward are the approximations shown`,
   },
-  {
-    when: (s, f) =>
-      s.arrivals.process === "time-varying" && f.waiting && !f.retrying && s.patience === undefined && !Number.isFinite(tt.periodicQueueWork(f.n, s.waitingPositions, s.arrivals.profile, f.h)),
-    reason:
-      "waiting positions without patience under a time-varying load that keeps the waiting room overloaded for most of the cycle: the periodic solution exists, but the cycle map has no contraction the method can bound, so no value with a stated error is given (give callers a patience, or fewer waiting positions)",
-  },
 ];
 
 export interface ReferenceOptions {

@@ -2,6 +2,8 @@ import { z } from "zod";
 import { assertFiniteResult, parseInput, TeletrafficConvergenceError } from "./errors";
 import { MAX_TRAFFIC } from "./erlang-b";
 import type { MmppQueueResult } from "./mmpp";
+import { periodicRetrialSystem, periodicRetrialWork, type PeriodicRetrialInput, type PeriodicRetrialResult } from "./periodic-retrial";
+import { STEP_MEAN, uniformisationWeights } from "./uniformisation";
 import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, timeVaryingHoldingField, timeVaryingServersField } from "./time-varying";
 
 /**
@@ -33,11 +35,6 @@ import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, time
  * 0..N + Q, departures min(k, N) μ + (k − N)⁺ α); there the contraction is measured in a weighted
  * distance (see contractionFor), which reduces to the W1 argument above when Q = 0.
  */
-
-/** Λτ per uniformisation step: large enough that the Poisson spread costs little (about 2.1 × Λτ terms per step). */
-export const STEP_MEAN = 100;
-/** Tail mass of the Poisson weights left out per step. */
-const STEP_TAIL = 1e-25;
 
 /** Work units (state updates, i.e. (N + 1) × uniformisation terms) answered interactively, about 100 ms. */
 export const INTERACTIVE_PERIODIC_WORK = 25_000_000;
@@ -296,35 +293,6 @@ interface SegmentPlan {
   integralLeft: number;
   /** The segment's equilibrium law, for early settling (undefined for segments shorter than h or without contraction). */
   equilibrium?: Float64Array;
-}
-
-/**
- * Poisson(θ) weights w_k for k = 0..K, cut where the mass left beyond K is below STEP_TAIL, with
- * P(X > k) for each k and a bound on the left-out mass (shared by every uniformised periodic chain).
- */
-export function uniformisationWeights(theta: number): { weights: Float64Array; tail: Float64Array; massLeft: number } {
-  const weights: number[] = [];
-  let w = Math.exp(-theta);
-  let k = 0;
-  let leftBound = Infinity;
-  for (;;) {
-    weights.push(w);
-    // Σ_{j>k} w_j <= w_{k+1} / (1 − θ/(k+2)) once k + 2 > θ (ratios θ/j below θ/(k+2)).
-    const next = (w * theta) / (k + 1);
-    if (k + 2 > theta) {
-      leftBound = next / (1 - theta / (k + 2));
-      if (leftBound <= STEP_TAIL) break;
-    }
-    w = next;
-    k++;
-  }
-  const tail = new Float64Array(weights.length);
-  let c = 0;
-  for (let j = 0; j < weights.length; j++) {
-    c += weights[j];
-    tail[j] = Math.max(0, 1 - c);
-  }
-  return { weights: Float64Array.from(weights), tail, massLeft: leftBound };
 }
 
 function planSegment(m: BirthDeath, start: number, duration: number, rate: number, kappa: number, h: number): SegmentPlan {
@@ -588,14 +556,12 @@ export const periodicQueueInputSchema = z
     refineProfileHasTraffic(v.profile, ctx);
     if (!wellFormedGroup(v.servers, v.waitingPositions)) return;
     const work = periodicQueueWork(v.servers, v.waitingPositions, v.profile, v.meanHolding, v.meanPatience, v.tolerance);
-    if (!Number.isFinite(work))
-      ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: "without patience this waiting room is overloaded for most of the cycle: no contraction bound, so no error bound can be stated" });
-    else if (work > MAX_PERIODIC_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_WORK} state updates` });
+    if (work > MAX_PERIODIC_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_WORK} state updates` });
   })
   .describe("time-varying Poisson arrivals on N servers with Q waiting positions (exponential holding, optional exponential patience): exact periodic measures (forward equations)");
 export type PeriodicQueueInput = z.input<typeof periodicQueueInputSchema>;
 
-/** Estimated state updates of periodicQueueSystem (Infinity when no error bound can be stated). */
+/** Estimated state updates of periodicQueueSystem (by the bracketed solver where no contraction can be bounded). */
 export function periodicQueueWork(
   servers: number,
   waitingPositions: number,
@@ -604,7 +570,21 @@ export function periodicQueueWork(
   meanPatience?: number,
   tolerance = 1e-12,
 ): number {
-  return birthDeathWork({ servers, capacity: servers + waitingPositions, mu: 1 / meanHolding, alpha: meanPatience ? 1 / meanPatience : 0 }, profile, tolerance);
+  const work = birthDeathWork({ servers, capacity: servers + waitingPositions, mu: 1 / meanHolding, alpha: meanPatience ? 1 / meanPatience : 0 }, profile, tolerance);
+  return Number.isFinite(work) ? work : periodicRetrialWork(bracketedQueueInput(servers, waitingPositions, profile, meanHolding, meanPatience, tolerance));
+}
+
+/** The plain queue as the bracketed periodic chain without an orbit (periodic-retrial.ts, persistence 0). */
+function bracketedQueueInput(
+  servers: number,
+  waitingPositions: number,
+  profile: ReadonlyArray<{ duration: number; rate: number }>,
+  meanHolding: number,
+  meanPatience: number | undefined,
+  tolerance: number,
+): PeriodicRetrialInput {
+  // Its intervals close down to rounding at about 1e-10, not 1e-12.
+  return { servers, waitingPositions, profile: [...profile], meanHolding, meanPatience, persistence: 0, meanRetryDelay: 1, tolerance: Math.max(tolerance, 1e-10) };
 }
 
 export interface PeriodicQueueSegment {
@@ -639,7 +619,18 @@ export interface PeriodicQueueResult extends MmppQueueResult {
 export function periodicQueueSystem(input: PeriodicQueueInput): PeriodicQueueResult {
   const { servers: n, waitingPositions: q, profile, meanHolding: h, meanPatience, tolerance } = parseInput(periodicQueueInputSchema, input);
   const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
-  const sol = solvePeriodicBirthDeath({ servers: n, capacity: n + q, mu: 1 / h, alpha }, profile, h, tolerance);
+  const model: BirthDeath = { servers: n, capacity: n + q, mu: 1 / h, alpha };
+  // No contraction to bound (no patience, the room overloaded most of the cycle): the chain is still
+  // monotone, so the bracketed solver gives the values with a stated error instead.
+  const bracketed = () => bracketedQueue(periodicRetrialSystem(bracketedQueueInput(n, q, profile, h, meanPatience, tolerance)), tolerance);
+  if (!chooseContraction(model, profile, tolerance)) return bracketed();
+  const sol = solvePeriodicBirthDeath(model, profile, h, tolerance);
+  // Weights spanning many orders over a large room can leave the contraction bound far above the
+  // rounding floor: then the bracketed solution, whose intervals close to about 1e-10, is taken if tighter.
+  if (sol.errorBound > BRACKET_ABOVE) {
+    const b = bracketed();
+    if (b.errorBound < sol.errorBound) return b;
+  }
   const segments: PeriodicQueueSegment[] = [];
   let offered = 0;
   let refused = 0;
@@ -691,4 +682,30 @@ export function periodicQueueSystem(input: PeriodicQueueInput): PeriodicQueueRes
     },
     "periodicQueueSystem",
   );
+}
+
+/** Contraction bounds above this are retried with the bracketed solver. */
+const BRACKET_ABOVE = 1e-8;
+
+function bracketedQueue(r: PeriodicRetrialResult, tolerance: number): PeriodicQueueResult {
+  return {
+    method: r.method,
+    servers: r.servers,
+    waitingPositions: r.waitingPositions,
+    cycle: r.cycle,
+    offeredTraffic: r.offeredTraffic,
+    segments: r.segments.map((g) => ({ start: g.start, duration: g.duration, rate: g.rate, callCongestion: g.firstAttemptBlocking, timeCongestion: g.timeCongestion, carriedTraffic: g.carriedTraffic, meanQueueLength: g.meanQueueLength })),
+    callCongestion: r.firstAttemptBlocking,
+    timeCongestion: r.timeCongestion,
+    carriedTraffic: r.carriedTraffic,
+    waitingProbability: r.waitingProbability,
+    meanWait: r.meanWait,
+    meanQueueLength: r.meanQueueLength,
+    abandonmentProbability: r.abandonmentProbability,
+    lossProbability: r.lossProbability,
+    errorBound: r.errorBound,
+    tolerance,
+    cycles: r.cycles,
+    steps: r.steps,
+  };
 }

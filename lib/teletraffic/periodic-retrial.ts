@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
-import { STEP_MEAN, uniformisationWeights } from "./periodic-loss";
+import { STEP_MEAN, uniformisationWeights } from "./uniformisation";
 import { cappedStationaryLaw, levelMass, stationaryOrbitCap, TRUNCATION_BOUND, type MarkovSystemModel, type RetrialRateMeasures } from "./retrial-chain";
 import { profileField, refineProfileHasTraffic, timeVaryingHoldingField } from "./time-varying";
 
@@ -53,7 +53,7 @@ export const periodicRetrialInputSchema = z
     waitingPositions: z.number().int().min(0).max(10_000).default(0).describe("waiting positions Q (FIFO), default 0"),
     profile: profileField,
     meanHolding: timeVaryingHoldingField,
-    persistence: z.number().gt(0).max(1).describe("probability that a refused call tries again (after every refusal), 0 < p <= 1"),
+    persistence: z.number().min(0).max(1).describe("probability that a refused call tries again (after every refusal), 0..1 (0: no retrials, the bracketed solution of the plain queue)"),
     meanRetryDelay: meanField("mean exponential delay before a repeated attempt"),
     meanPatience: meanField("mean exponential patience of a waiting call; default: waits for ever").optional(),
     tolerance: z
@@ -84,6 +84,7 @@ export interface PeriodicRetrialSegment {
   timeCongestion: number;
   carriedTraffic: number;
   meanOrbit: number;
+  meanQueueLength: number;
 }
 
 /** Over the cycle, the measures every retrial chain reports (retrial-chain.ts), each within errorBound. */
@@ -190,6 +191,7 @@ function initialCap(v: Parsed): number {
   const peak = Math.max(...v.profile.map((s) => s.rate));
   const width = v.servers + v.waitingPositions + 1;
   const maxStates = MAX_PERIODIC_RETRIAL_STATES;
+  if (v.persistence === 0) return 0; // no orbit: the plain queue
   if (peakStable(v, peak)) return Math.max(2, stationaryOrbitCap(stationaryModel(v, peak), TRUNCATION_BOUND, maxStates * 4).cap);
   const cap = 2 * stationaryOrbitCap(stationaryModel(v, cycleOf(v.profile).meanRate), TRUNCATION_BOUND, maxStates * 4).cap;
   if ((cap + 1) * width > maxStates) throw inputError("profile", `the orbit needs more than ${Math.floor(maxStates / width) - 1} levels (${maxStates} states)`);
@@ -490,7 +492,7 @@ function solveWithCap(v: Parsed, cap: number): Solved {
         const l = a.integrals[i];
         const h = b.integrals[i];
         const avg = (key: keyof Integrals) => (l[key] + h[key]) / 2 / plan.duration;
-        return { start: plan.start, duration: plan.duration, rate: plan.rate, firstAttemptBlocking: avg("full"), timeCongestion: avg("allBusy"), carriedTraffic: avg("busy"), meanOrbit: avg("orbit") };
+        return { start: plan.start, duration: plan.duration, rate: plan.rate, firstAttemptBlocking: avg("full"), timeCongestion: avg("allBusy"), carriedTraffic: avg("busy"), meanOrbit: avg("orbit"), meanQueueLength: avg("queue") };
       });
       let tail = 0;
       if (cap >= 2) tail = Math.max(tail, extrapolatedCapTail(upper, c));
@@ -513,7 +515,7 @@ function finish(v: Parsed, s: Solved, neglectedMass: number): PeriodicRetrialRes
   const q = v.waitingPositions;
   return assertFiniteResult(
     {
-      method: `exact periodic retrial chain on (calls, orbit)${q > 0 ? `, ${q} waiting positions${v.meanPatience !== undefined ? " with exponential patience" : ""}` : ""}: forward equations by uniformisation, bracketed between the laws from the lowest- and highest-rate equilibria (monotone chain); orbit capped at ${s.chain.cap}`,
+      method: `${v.persistence > 0 ? "exact periodic retrial chain on (calls, orbit)" : "exact periodic chain on the calls present"}${q > 0 ? `, ${q} waiting positions${v.meanPatience !== undefined ? " with exponential patience" : ""}` : ""}: forward equations by uniformisation, bracketed between the laws from the lowest- and highest-rate equilibria (monotone chain)${v.persistence > 0 ? `; orbit capped at ${s.chain.cap}` : ""}`,
       servers: v.servers,
       waitingPositions: q,
       cycle: m.cycle,

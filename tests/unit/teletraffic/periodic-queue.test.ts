@@ -4,7 +4,7 @@
 // level reduction in markov-systems.ts, a different method), and the loss system on N + Q servers
 // when patience equals the holding time.
 import { describe, expect, it } from "vitest";
-import { analyticOperations, patienceQueue, periodicLossSystem, periodicQueueSystem, TeletrafficInputError } from "../../../lib/teletraffic";
+import { analyticOperations, patienceQueue, periodicLossSystem, periodicQueueSystem, periodicRetrialSystem, TeletrafficInputError } from "../../../lib/teletraffic";
 import { densePeriodic, relativeError } from "./dense-chain";
 
 type Profile = Array<{ duration: number; rate: number }>;
@@ -73,6 +73,23 @@ describe("exact periodic M(t)/M/N/N+Q with exponential patience (forward equatio
       expect(Math.abs(r.lossProbability - d.loss), label).toBeLessThan(allowed * 10);
       expect(Math.abs(r.carriedTraffic - d.carried), label).toBeLessThan(allowed * 10);
     }
+  });
+
+  it("a large room overloaded most of the cycle without patience: where the contraction bound stays loose the bracketed solution answers, and the two agree within their bounds", () => {
+    // Q = 400: the geometric weights span so many orders that the contraction bound stalls near 3e-4.
+    const wide = periodicQueueSystem({ servers: 2, waitingPositions: 400, profile: [{ duration: 10, rate: 3 }, { duration: 2, rate: 0.5 }] });
+    expect(wide.method).toMatch(/bracketed/);
+    expect(wide.errorBound).toBeLessThan(1e-9);
+    // Q = 120: both methods reach a tight bound (1.9e-9 by contraction); the bracketed one, asked directly, must agree.
+    const c = { servers: 1, waitingPositions: 120, profile: [{ duration: 3, rate: 3 }, { duration: 1, rate: 0.2 }] };
+    const byContraction = periodicQueueSystem(c);
+    expect(byContraction.method).not.toMatch(/bracketed/);
+    const byBracket = periodicRetrialSystem({ ...c, persistence: 0, meanRetryDelay: 1, tolerance: 1e-10 });
+    const allowed = byContraction.errorBound + byBracket.errorBound;
+    expect(Math.abs(byContraction.callCongestion - byBracket.firstAttemptBlocking)).toBeLessThan(allowed);
+    expect(Math.abs(byContraction.timeCongestion - byBracket.timeCongestion)).toBeLessThan(allowed);
+    byContraction.segments.forEach((g, i) => expect(Math.abs(g.callCongestion - byBracket.segments[i].firstAttemptBlocking)).toBeLessThan(allowed));
+    expect(Math.abs(byContraction.meanQueueLength - byBracket.meanQueueLength) / byBracket.meanQueueLength).toBeLessThan(10 * allowed);
   });
 
   it("a constant profile is the stationary M/M/N/N+Q with patience (level reduction in markov-systems.ts)", () => {

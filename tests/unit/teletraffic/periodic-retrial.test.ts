@@ -146,7 +146,7 @@ describe("exact retrials under a time-varying load (periodic forward equations, 
     // persistence 1, no patience, mean traffic (3 × 1 + 1 × 5)/2 = 4 erlangs on 4 servers: the orbit grows without bound
     bad({ servers: 4, profile: [{ duration: 1, rate: 3 }, { duration: 1, rate: 5 }], persistence: 1, meanRetryDelay: 1 }, "profile");
     bad({ servers: 4, profile: [{ duration: 1, rate: 3 }], persistence: 0.5, meanRetryDelay: 1, meanPatience: 2 }, "meanPatience");
-    bad({ servers: 4, profile: [{ duration: 1, rate: 3 }], persistence: 0, meanRetryDelay: 1 }, "persistence");
+    bad({ servers: 4, profile: [{ duration: 1, rate: 3 }], persistence: 1.5, meanRetryDelay: 1 }, "persistence");
     bad({ servers: 4, profile: [{ duration: 1, rate: 0 }], persistence: 0.5, meanRetryDelay: 1 }, "profile");
   });
 
