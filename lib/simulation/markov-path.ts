@@ -1,3 +1,4 @@
+import { hyperexponentialBranches } from "../teletraffic/law-formulas";
 import { nearRefusalMargin, type ReplicationOptions, type ReplicationStats } from "./engine";
 import { Random, SUBSTREAM } from "./random";
 import type { Scenario } from "./scenario";
@@ -5,12 +6,16 @@ import { mmppOf, stationaryOfGenerator } from "./traffic";
 
 /**
  * The Markov path: for a loss group whose model is a continuous-time Markov chain throughout
- * (exponential holding; Poisson, MMPP/on-off or finite-source arrivals; no waiting line, no
- * retrials), it simulates the embedded jump chain only and credits every visited state with its
+ * (exponential holding; Poisson, MMPP/on-off, finite-source or overflow arrivals (each primary
+ * group's busy count is part of the state), or renewal arrivals with a phase-type interarrival law
+ * (exponential, Erlang, hyperexponential: the current phase is part of the state); no waiting line,
+ * no retrials), it simulates the embedded jump chain only and credits every visited state with its
  * expected sojourn 1/q(state) instead of a drawn one: the discrete-time conversion of Hordijk,
  * Iglehart & Schassberger (Adv. Appl. Prob. 8, 1976), whose time averages have a variance no
  * larger than those of the continuous-time simulation (Fox & Glynn, Management Science 36, 1990).
- * No event list and one uniform per jump.
+ * No event list and one uniform per jump. With overflow and phase-type arrivals the calls offered
+ * still arrive singly with a known intensity (the rates of the full primaries; the completion rate
+ * of the current phase when it ends an interarrival time), so the intensity estimator applies.
  *
  * So the clock of this path is the sum of expected sojourns: time integrals (busyIntegral,
  * occupancy, allBusyTime, intensities) are conditional expectations given the jump sequence, while
@@ -27,14 +32,45 @@ export function markovPathRefusal(scenario: Scenario): string | undefined {
   if (scenario.holding.law !== "exponential") return "holding is not exponential";
   if (scenario.waitingPositions > 0) return "a waiting line";
   if (scenario.retrials && scenario.retrials.persistence > 0) return "repeated attempts";
-  const p = scenario.arrivals.process;
-  if (p !== "poisson" && p !== "mmpp" && p !== "on-off" && p !== "finite-source") return `${p} arrivals`;
+  const a = scenario.arrivals;
+  if (a.process === "renewal") return phaseTypeOf(a.interarrival) ? undefined : `renewal arrivals with a ${a.interarrival.law} law (not phase-type)`;
+  if (a.process !== "poisson" && a.process !== "mmpp" && a.process !== "on-off" && a.process !== "finite-source" && a.process !== "overflow") return `${a.process} arrivals`;
   return undefined;
+}
+
+/**
+ * A phase-type interarrival law as phases: each phase's completion rate, whether its completion
+ * ends the interarrival time (an arrival), and the law of the first phase of the next one.
+ */
+function phaseTypeOf(law: Extract<Scenario["arrivals"], { process: "renewal" }>["interarrival"]): { rates: number[]; arrival: boolean[]; start: number[] } | undefined {
+  switch (law.law) {
+    case "exponential":
+      return { rates: [1 / law.mean], arrival: [true], start: [1] };
+    case "erlang":
+      return { rates: new Array<number>(law.k).fill(law.k / law.mean), arrival: Array.from({ length: law.k }, (_, i) => i === law.k - 1), start: [1, ...new Array<number>(law.k - 1).fill(0)] };
+    case "hyperexponential": {
+      const b = hyperexponentialBranches(law);
+      return { rates: b.means.map((m) => 1 / m), arrival: b.means.map(() => true), start: b.probabilities };
+    }
+    default:
+      return undefined;
+  }
 }
 
 const A_POISSON = 0;
 const A_MMPP = 1;
 const A_FINITE = 2;
+const A_OVERFLOW = 3;
+const A_PHASE = 4;
+const NO_CALL = -1;
+const GROUP_DEPARTURE = -2;
+
+/** Index drawn from cumulative weights `cumulative` (last entry 1) by a uniform v. */
+function pick(cumulative: Float64Array, v: number): number {
+  let j = 0;
+  while (v > cumulative[j]) j++;
+  return j;
+}
 
 export class MarkovReplication {
   readonly index: number;
@@ -51,6 +87,19 @@ export class MarkovReplication {
   private readonly phaseRates: Float64Array = new Float64Array(0);
   private readonly phaseOut: Float64Array = new Float64Array(0);
   private readonly phaseJump: Float64Array[] = [];
+  /** Overflow: each primary's rate, servers, busy count and cumulative choice; the sums kept as they change. */
+  private readonly primaryRates: Float64Array = new Float64Array(0);
+  private readonly primaryServers: Int32Array = new Int32Array(0);
+  private readonly primaryBusy: Int32Array = new Int32Array(0);
+  private readonly primaryChoice: Float64Array = new Float64Array(0);
+  private readonly primaryTotal: number = 0;
+  private primaryBusySum = 0;
+  private overflowIntensity = 0;
+  private readonly primaryArrivals: Float64Array = new Float64Array(0);
+  private readonly primaryOverflows: Float64Array = new Float64Array(0);
+  /** Phase-type renewal: completion rate and arrival flag per phase, cumulative law of the first phase. */
+  private readonly phaseArrival: Uint8Array = new Uint8Array(0);
+  private readonly phaseStart: Float64Array = new Float64Array(0);
   private readonly rng: Random;
 
   private t = 0;
@@ -104,6 +153,32 @@ export class MarkovReplication {
     if (a.process === "poisson") {
       this.arrivalKind = A_POISSON;
       this.rate = a.rate;
+    } else if (a.process === "overflow") {
+      this.arrivalKind = A_OVERFLOW;
+      // As the event loops: primary i is offered Poisson calls at traffic_i / mean holding.
+      const rates = a.primaries.map((g) => g.traffic / this.holdingMean);
+      this.primaryRates = Float64Array.from(rates);
+      this.primaryServers = Int32Array.from(a.primaries.map((g) => g.servers));
+      this.primaryBusy = new Int32Array(rates.length);
+      this.primaryTotal = rates.reduce((x, y) => x + y, 0);
+      let c = 0;
+      this.primaryChoice = Float64Array.from(rates.map((r) => (c += r) / this.primaryTotal));
+      this.primaryChoice[rates.length - 1] = 1;
+      this.primaryArrivals = new Float64Array(rates.length);
+      this.primaryOverflows = new Float64Array(rates.length);
+      rates.forEach((r, i) => {
+        if (this.primaryServers[i] === 0) this.overflowIntensity += r;
+      });
+    } else if (a.process === "renewal") {
+      this.arrivalKind = A_PHASE;
+      const ph = phaseTypeOf(a.interarrival)!;
+      this.phaseRates = Float64Array.from(ph.rates);
+      this.phaseArrival = Uint8Array.from(ph.arrival.map(Number));
+      let c = 0;
+      this.phaseStart = Float64Array.from(ph.start.map((x) => (c += x)));
+      this.phaseStart[ph.start.length - 1] = 1;
+      // Start at the beginning of an interarrival time (the warm-up removes the start).
+      this.phase = pick(this.phaseStart, this.rng.next());
     } else if (a.process === "finite-source") {
       this.arrivalKind = A_FINITE;
       this.sources = a.sources;
@@ -156,6 +231,8 @@ export class MarkovReplication {
     this.calls = this.blockedFirst = 0;
     this.busyIntegral = this.intensityIntegral = this.refusingIntensityIntegral = 0;
     this.nearRefusalCalls = this.nearRefusalIntensityIntegral = this.nearRefusalAdmitted = 0;
+    this.primaryArrivals.fill(0);
+    this.primaryOverflows.fill(0);
     this.halfTaken = false;
     this.halfTime = this.halfBusyIntegral = 0;
     this.occupancy.fill(0);
@@ -188,10 +265,20 @@ export class MarkovReplication {
     let finished = false;
     const limit = events + maxEvents;
     while (events < limit) {
-      const lambda = kind === A_POISSON ? this.rate : kind === A_MMPP ? phaseRates[phase] : (this.sources - busy) * this.idleRate;
+      // lambda: the intensity of calls offered to the group; q: the total rate out of the state.
       const departures = busy * mu;
-      const switching = kind === A_MMPP ? phaseOut[phase] : 0;
-      const q = lambda + departures + switching;
+      let lambda: number;
+      let q: number;
+      if (kind === A_POISSON) q = (lambda = this.rate) + departures;
+      else if (kind === A_MMPP) q = (lambda = phaseRates[phase]) + departures + phaseOut[phase];
+      else if (kind === A_FINITE) q = (lambda = (this.sources - busy) * this.idleRate) + departures;
+      else if (kind === A_OVERFLOW) {
+        lambda = this.overflowIntensity;
+        q = this.primaryTotal + this.primaryBusySum * mu + departures;
+      } else {
+        lambda = this.phaseArrival[phase] ? phaseRates[phase] : 0;
+        q = phaseRates[phase] + departures;
+      }
       if (q === 0) {
         finished = true; // absorbing: nothing can happen any more
         break;
@@ -226,7 +313,32 @@ export class MarkovReplication {
       t += sojourn;
       events++;
       const u = rng.next() * q;
-      if (u < lambda) {
+      let call = false;
+      let overflowed = NO_CALL;
+      if (kind === A_OVERFLOW) {
+        overflowed = this.overflowJump(u);
+        if (overflowed === GROUP_DEPARTURE) busy--;
+        else call = overflowed >= 0;
+      }
+      else if (kind === A_PHASE) {
+        const completion = phaseRates[phase];
+        if (u < completion) {
+          // The phase ends: an arrival (then the next interarrival's first phase, drawn from the same uniform) or the next phase.
+          if (this.phaseArrival[phase]) {
+            call = true;
+            phase = pick(this.phaseStart, u / completion);
+          } else phase++;
+        } else busy--;
+      } else if (u < lambda) call = true;
+      else if (u < lambda + departures) busy--;
+      else {
+        const jump = this.phaseJump[phase];
+        const v = rng.next();
+        let j = 0;
+        while (v > jump[j]) j++;
+        phase = j;
+      }
+      if (call) {
         // A fresh call.
         if (!this.measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
           this.t = t;
@@ -250,6 +362,10 @@ export class MarkovReplication {
         }
         this.callsSeen++;
         calls++;
+        if (overflowed >= 0 && this.measuring) {
+          this.primaryArrivals[overflowed]++;
+          this.primaryOverflows[overflowed]++;
+        }
         if (busy >= nearLevel) {
           nearCalls++;
           if (busy < servers) nearAdmitted++;
@@ -261,13 +377,6 @@ export class MarkovReplication {
           this.halfTime = t - this.measureStart;
           this.halfBusyIntegral = busyIntegral;
         }
-      } else if (u < lambda + departures) busy--;
-      else {
-        const jump = this.phaseJump[phase];
-        const v = rng.next();
-        let j = 0;
-        while (v > jump[j]) j++;
-        phase = j;
       }
     }
     this.t = t;
@@ -284,6 +393,31 @@ export class MarkovReplication {
     this.nearRefusalAdmitted = nearAdmitted;
     if (finished) this.done = true;
     return finished;
+  }
+
+  /**
+   * One jump of the overflow network below the group: a primary arrival admitted there (NO_CALL),
+   * one overflowing (the primary's index: a call offered to the group, counted by the caller), a
+   * primary departure (NO_CALL), or, for u beyond those, a departure from the group (GROUP_DEPARTURE).
+   */
+  private overflowJump(u: number): number {
+    if (u < this.primaryTotal) {
+      // u / total is uniform on [0, 1) given this branch: it also picks the primary.
+      const i = pick(this.primaryChoice, u / this.primaryTotal);
+      if (this.primaryBusy[i] === this.primaryServers[i]) return i;
+      if (this.measuring) this.primaryArrivals[i]++;
+      this.primaryBusySum++;
+      if (++this.primaryBusy[i] === this.primaryServers[i]) this.overflowIntensity += this.primaryRates[i];
+      return NO_CALL;
+    }
+    const w = (u - this.primaryTotal) / this.serviceRate;
+    if (w >= this.primaryBusySum) return GROUP_DEPARTURE;
+    let i = 0;
+    let c = this.primaryBusy[0];
+    while (w >= c) c += this.primaryBusy[++i];
+    this.primaryBusySum--;
+    if (this.primaryBusy[i]-- === this.primaryServers[i]) this.overflowIntensity -= this.primaryRates[i];
+    return NO_CALL;
   }
 
   progress(): number {
@@ -335,8 +469,8 @@ export class MarkovReplication {
       nearRefusalPhaseSojournDeviation: 0,
       holdingDraws: admitted,
       holdingSum: admitted * this.holdingMean,
-      primaryArrivals: [],
-      primaryOverflows: [],
+      primaryArrivals: Array.from(this.primaryArrivals),
+      primaryOverflows: Array.from(this.primaryOverflows),
       // Time-varying profiles run on the reference loop only (dispatch.ts).
       segmentCalls: [],
       segmentBlockedFirst: [],

@@ -50,8 +50,13 @@ export function maxControls(replications: number): number {
   return Math.max(0, Math.floor((replications - 2) / 5));
 }
 
-/** Processes whose fresh calls arrive singly with a stochastic intensity kept by the engine. */
-export function hasArrivalIntensity(scenario: Scenario): boolean {
+/**
+ * Processes whose fresh calls arrive singly with a stochastic intensity kept by the engine; also
+ * renewal arrivals run on the Markov path (phase-type laws: the current phase's completion rate is
+ * the intensity, markov-path.ts), which every record must then come from.
+ */
+export function hasArrivalIntensity(scenario: Scenario, records: readonly Pick<ReplicationRecord, "path">[] = []): boolean {
+  if (scenario.arrivals.process === "renewal") return records.length > 0 && records.every((r) => r.path === "markov");
   return ["poisson", "mmpp", "on-off", "time-varying", "finite-source", "overflow"].includes(scenario.arrivals.process);
 }
 
@@ -94,7 +99,7 @@ export function lawVariance(law: Law): number {
 /** The controls that apply to call congestion for this scenario, in priority order. */
 export function callCongestionControls(scenario: Scenario, records: readonly ReplicationRecord[]): Control[] {
   const controls: Control[] = [];
-  const intensity = hasArrivalIntensity(scenario);
+  const intensity = hasArrivalIntensity(scenario, records);
   const holdingMean = new LawSampler(scenario.holding).mean;
   const holdingUsable = Number.isFinite(lawVariance(scenario.holding)) && lawVariance(scenario.holding) > 0;
   controls.push({ name: "arrivals", values: records.map((r) => r.calls - r.intensityIntegral) });
@@ -199,7 +204,7 @@ function dot(a: readonly number[], b: readonly number[]): number {
  * direct count, with the control variates that apply; `method` says which.
  */
 export function callCongestionEstimate(scenario: Scenario, records: readonly ReplicationRecord[], confidence: number): ControlledInterval {
-  const intensity = hasArrivalIntensity(scenario);
+  const intensity = hasArrivalIntensity(scenario, records);
   const y = records.map((r) => (intensity ? r.refusingIntensityIntegral : r.blockedFirst));
   const x = records.map((r) => r.calls);
   const ci = controlledRatio(y, x, callCongestionControls(scenario, records), confidence);

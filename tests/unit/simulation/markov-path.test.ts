@@ -7,7 +7,8 @@ import { describe, expect, it } from "vitest";
 import { enginePathFor } from "../../../lib/simulation/dispatch";
 import { markovPathRefusal } from "../../../lib/simulation/markov-path";
 import { parseScenario, runScenario, type ScenarioInput } from "../../../lib/simulation/node";
-import { expectAgrees } from "./helpers";
+import { overflowLossSystem, renewalLossSystem } from "../../../lib/teletraffic";
+import { coverageRegion, expectAgrees } from "./helpers";
 
 const exp1 = { law: "exponential", mean: 1 } as const;
 
@@ -39,7 +40,11 @@ describe("Markov path: dispatch rule", () => {
     expect(markovPathRefusal(parseScenario({ ...base, holding: { law: "erlang", k: 2, mean: 1 } }))).toBe("holding is not exponential");
     expect(markovPathRefusal(parseScenario({ ...base, waitingPositions: 2 }))).toBe("a waiting line");
     expect(markovPathRefusal(parseScenario({ ...base, retrials: { persistence: 0.5, delay: exp1 } }))).toBe("repeated attempts");
-    expect(markovPathRefusal(parseScenario({ ...base, arrivals: { process: "renewal", interarrival: exp1 } }))).toBe("renewal arrivals");
+    expect(enginePathFor(parseScenario({ ...base, arrivals: { process: "renewal", interarrival: { law: "hyperexponential", mean: 0.125, scv: 4 } } }))).toBe("markov");
+    expect(enginePathFor(parseScenario({ ...base, arrivals: { process: "renewal", interarrival: { law: "erlang", k: 3, mean: 0.125 } } }))).toBe("markov");
+    expect(enginePathFor(parseScenario({ ...base, arrivals: { process: "overflow", primaries: [{ traffic: 6, servers: 5 }] } }))).toBe("markov");
+    expect(markovPathRefusal(parseScenario({ ...base, arrivals: { process: "renewal", interarrival: { law: "lognormal", mean: 0.125, cv: 2 } } }))).toBe("renewal arrivals with a lognormal law (not phase-type)");
+    expect(markovPathRefusal(parseScenario({ ...base, arrivals: { process: "batch", rate: 2, batchSize: { law: "geometric", mean: 2 }, admission: "partial" } }))).toBe("batch arrivals");
     expect(enginePathFor(parseScenario({ ...base, holding: { law: "lognormal", mean: 1, cv: 1 } }))).toBe("specialised");
     expect(enginePathFor(parseScenario({ ...base, arrivals: { process: "time-varying", profile: [{ duration: 1, rate: 8 }] } }))).toBe("reference");
   });
@@ -70,6 +75,31 @@ describe("Markov path against exact values (t at 99.9 %, see helpers.ts)", () =>
     const exact = engsetExact(40, 10, 0.25);
     expectAgrees(r.timeCongestion, exact.time, reps, "Engset time congestion");
     expectAgrees(r.callCongestion, exact.call, reps, "Engset call congestion");
+  });
+
+  it("overflow arrivals (primaries in the state): call and time congestion against the exact network chain", async () => {
+    const reps = 20;
+    const primaries = [{ traffic: 20, servers: 20 }, { traffic: 10, servers: 8 }];
+    const r = await runScenario(parseScenario({ servers: 15, arrivals: { process: "overflow", primaries }, holding: exp1, run: { seed: 14, replications: reps, callsPerReplication: 40_000, warmupCalls: 2_000 } }));
+    expect(r.enginePath).toBe("markov");
+    // Independent: lib/teletraffic's overflow chain (itself checked against a dense solve), and Erlang B for the primaries.
+    const exact = overflowLossSystem({ primaries, servers: 15 });
+    expectAgrees(r.callCongestion, exact.blocking, reps, "call congestion");
+    expectAgrees(r.timeCongestion, exact.timeCongestion, reps, "time congestion");
+    expect(r.callCongestion.method).toMatch(/intensity estimator/);
+  });
+
+  it("phase-type renewal arrivals (hyperexponential, Erlang-3): call and time congestion against Palm–Takács", async () => {
+    const reps = 20;
+    for (const interarrival of [{ law: "hyperexponential", mean: 1 / 17, scv: 4 }, { law: "erlang", k: 3, mean: 1 / 8 }] as const) {
+      const servers = interarrival.law === "erlang" ? 10 : 30;
+      const r = await runScenario(parseScenario({ servers, arrivals: { process: "renewal", interarrival }, holding: exp1, run: { seed: 15, replications: reps, callsPerReplication: 40_000, warmupCalls: 2_000 } }));
+      expect(r.enginePath).toBe("markov");
+      const exact = renewalLossSystem({ servers, interarrival });
+      expectAgrees(r.callCongestion, exact.callCongestion, reps, `${interarrival.law} call congestion`);
+      expectAgrees(r.timeCongestion, exact.timeCongestion, reps, `${interarrival.law} time congestion`);
+      expect(r.callCongestion.method).toMatch(/intensity estimator/);
+    }
   });
 
   it("horizon runs and warm-up time are measured on the expected-sojourn clock", async () => {
@@ -117,6 +147,27 @@ describe("Markov path against the reference event loop (same model, different es
 });
 
 describe("Markov path coverage", () => {
+  it("95 % intervals of call congestion cover the exact value for overflow and hyperexponential arrivals in 100 fixed-seed runs each", async () => {
+    // Each count is Binomial(100, 0.95) for honest intervals; coverageRegion (helpers.ts) gives the
+    // acceptance region an honest estimator leaves with probability below 0.002 per count.
+    const { low, high } = coverageRegion(100);
+    const primaries = [{ traffic: 8, servers: 8 }, { traffic: 4, servers: 3 }];
+    const h2 = { law: "hyperexponential", mean: 1 / 6, scv: 4 } as const;
+    const cases: Array<[string, ScenarioInput["arrivals"], number, number]> = [
+      ["overflow", { process: "overflow", primaries }, 6, overflowLossSystem({ primaries, servers: 6 }).blocking],
+      ["hyperexponential renewal", { process: "renewal", interarrival: h2 }, 9, renewalLossSystem({ servers: 9, interarrival: h2 }).callCongestion],
+    ];
+    for (const [name, arrivals, servers, exact] of cases) {
+      let covered = 0;
+      for (let seed = 1; seed <= 100; seed++) {
+        const r = await runScenario(parseScenario({ servers, arrivals, holding: exp1, run: { seed: 500 + seed, replications: 12, callsPerReplication: 6_000, warmupCalls: 300 } }));
+        if (r.callCongestion.ciLow <= exact && exact <= r.callCongestion.ciHigh) covered++;
+      }
+      expect(covered, `${name}: ${covered} of 100`).toBeGreaterThanOrEqual(low);
+      expect(covered, `${name}: ${covered} of 100`).toBeLessThanOrEqual(high);
+    }
+  }, 120_000);
+
   it("95 % intervals of time congestion on M/M/10/10 at 7 E cover Erlang B in 100 fixed-seed runs", async () => {
     // With true coverage 0.95 the count of covering runs is Binomial(100, 0.95); the test accepts
     // counts whose lower-tail probability is at least 0.001 (computed below), so a correct
