@@ -8,7 +8,11 @@ import * as ziggurat from "./ziggurat";
 
 // Module-local bindings: module loaders that turn imports into property getters (tsx, vitest)
 // would otherwise pay a getter call on every draw.
-const { zigExponential, zigNormal } = ziggurat;
+const { zigExponential, zigNormal, ke, we, kn, wn, exponentialFix, normalFix } = ziggurat;
+
+// Random.next(): (k + 0.5) / 2^32 for the 32-bit word k (random.ts); the loop draws uniforms inline.
+const U_STEP = 2.3283064365386963e-10;
+const U_HALF = 1.1641532182693481e-10;
 
 /**
  * The specialised event loop: the reference loop's model and event order (engine.ts), with the
@@ -24,6 +28,13 @@ const { zigExponential, zigNormal } = ziggurat;
  * lattice laws make possible, so `fastLoopApplies` leaves those scenarios to the reference loop.
  * Time-varying arrivals also stay there (their clock is the reference loop's own).
  */
+
+/**
+ * Events in a replication's first slice: enough for V8 to give advance() its feedback vector
+ * (allocated after about eight times its bytecode size has run), few enough to end before the
+ * loop is optimised (see advance()).
+ */
+const FIRST_SLICE = 1000;
 
 /** Same instant tolerance as the reference loop (engine.ts TIE; see there why). */
 const TIE = 16 * Number.EPSILON;
@@ -87,9 +98,9 @@ const ZIG_HYPEREXPONENTIAL = codeOf({ law: "hyperexponential", mean: 0.5, scv: 4
 
 /**
  * LawSampler.sample with the commonest ziggurat laws written out: the same operations in the same
- * order, so the same draws. Kept short, since V8 inlines only so much bytecode into one function:
- * inlined into the loop, the draw stays an unboxed double (a call returns it boxed, which
- * allocates). Every other law goes to the sampler.
+ * order, so the same draws. For the patience draw, which the loop does not write out (advance()
+ * writes out the holding, interarrival and retry-delay draws, which are hot). Every other law goes
+ * to the sampler.
  */
 function draw(sampler: LawSampler, rng: Random): number {
   const p = sampler as unknown as SamplerParameters;
@@ -109,6 +120,14 @@ function hyperexponentialDraw(p: SamplerParameters, rng: Random): number {
   let i = 0;
   while (i < table.length - 1 && u > table[i]) i++;
   return p.values[i] * zigExponential(rng);
+}
+
+/** No law: the parameters `advance` reads for a sampler the scenario does not have. */
+const NO_LAW: SamplerParameters = { code: -1, a: 0, b: 0, table: new Float64Array(0), values: new Float64Array(0) };
+
+/** A sampler's parameters, for the laws `advance` draws inline. */
+function inlineLaw(sampler: LawSampler | undefined): SamplerParameters {
+  return sampler ? (sampler as unknown as SamplerParameters) : NO_LAW;
 }
 
 /** Standard exponential draw of the chosen streams; -log(u) is the reference loop's form. */
@@ -184,6 +203,8 @@ export class FastReplication {
   readonly traceQueue: number[] = [];
   readonly traceCalls: number[] = [];
   private nextTrace = 0;
+  /** Events in the next slice at most: FIRST_SLICE, then no cap (see advance()). Starts as a double (see UNSET). */
+  private sliceCap = Infinity;
 
   private calls = 0;
   private blockedFirst = 0;
@@ -228,6 +249,7 @@ export class FastReplication {
     const refusal = fastLoopRefusal(scenario);
     if (refusal) throw new Error(`the specialised loop does not run this scenario: ${refusal}`);
     this.index = index;
+    this.sliceCap = FIRST_SLICE;
     this.t = this.measureStart = this.overflowIntensity = 0;
     this.rate = this.idleRate = this.meanCallRate = 0;
     const zig = (this.zig = (options.streams ?? "ziggurat") === "ziggurat");
@@ -435,12 +457,13 @@ export class FastReplication {
     const kind = this.arrivalKind;
     const finite = kind === A_FINITE;
     const overflow = kind === A_OVERFLOW;
+    const mmpp = kind === A_MMPP;
+    const renewal = kind === A_RENEWAL;
     // Processes whose intensity the loop integrates (the others get rate x time in stats()).
-    const integrated = kind === A_MMPP || finite || overflow;
+    const integrated = mmpp || finite || overflow;
     const holding = this.holding;
-    const hr = this.holdingRng;
-    const rr = this.retryRng;
     const retryDelay = this.retryDelay;
+    const retrying = retryDelay !== undefined;
     const persistence = this.persistence;
     const maxAttempts = this.maxAttempts;
     const patience = this.patience;
@@ -449,22 +472,59 @@ export class FastReplication {
     const sources = this.sources;
     const idleRate = this.idleRate;
     const phaseRates = this.phaseRates;
-    const ar = this.arrivalRng;
+    const phaseOut = this.phaseOut;
+    const phaseWeight = this.phaseWeight;
+    const phaseJump = this.phaseJump;
+    const primaryChoice = this.primaryChoice;
+    const primaryBusy = this.primaryBusy;
+    const primaryServers = this.primaryServers;
+    const primaryRates = this.primaryRates;
     const interarrival = this.interarrival;
     const interarrivalMean = interarrival ? interarrival.mean : 0;
     const zig = this.zig;
     const rate = this.rate;
-    // Poisson-timed fresh arrivals (Poisson, batch, overflow): their next instant is drawn inline.
+    // Poisson-timed fresh arrivals (Poisson, batch, overflow): their next instant is a unit exponential over `rate`.
     const poissonTimed = kind === A_POISSON || kind === A_BATCH || overflow;
+    // The laws drawn inline below (see `inlineLaw`); any other law goes to its sampler.
+    const { code: hlCode, a: hlA, b: hlB, table: hlTable, values: hlValues } = inlineLaw(holding);
+    const hlFast = hlCode === ZIG_EXPONENTIAL || hlCode === ZIG_HYPEREXPONENTIAL || hlCode === ZIG_LOGNORMAL;
+    const { code: glCode, a: glA, b: glB, table: glTable, values: glValues } = inlineLaw(interarrival);
+    const glFast = glCode === ZIG_EXPONENTIAL || glCode === ZIG_HYPEREXPONENTIAL || glCode === ZIG_LOGNORMAL;
+    const { code: dlCode, a: dlA, b: dlB, table: dlTable, values: dlValues } = inlineLaw(retryDelay);
+    const dlFast = dlCode === ZIG_EXPONENTIAL || dlCode === ZIG_HYPEREXPONENTIAL || dlCode === ZIG_LOGNORMAL;
+    // The arrival, holding and retry streams' xoshiro128** words, in locals for the slice: every
+    // draw on them is written out below (random.ts nextUint32, the same operations), with the
+    // ziggurat's fast path inline and its rare slow path (ziggurat.ts) called on the objects after
+    // the words are stored back. Called, a draw returns its double boxed, which allocates; and
+    // V8's inlining budget runs out long before this loop's draw sites are all inlined. The unary
+    // plus on every call's result below is for the same reason: a variable that may receive a
+    // call's (tagged) result is kept boxed on every path, the fast one included.
+    const ar = this.arrivalRng;
+    const hr = this.holdingRng;
+    const rr = this.retryRng;
+    let ar0 = ar.a, ar1 = ar.b, ar2 = ar.c, ar3 = ar.d;
+    let hr0 = hr.a, hr1 = hr.b, hr2 = hr.c, hr3 = hr.d;
+    let rr0 = rr.a, rr1 = rr.b, rr2 = rr.c, rr3 = rr.d;
     // The event list in locals for the slice: pushes and pops are written out in the loop below
     // (growHeap() replaces the arrays when full).
     let ht = this.heapTime;
     let hd = this.heapData;
     let hn = this.heapSize;
-    // Copies of fields that change only in startMeasuring() and enterPhase(), reread after those.
+    // Copies of fields, stored back at the end of the slice (startMeasuring() resets some).
     let nextPhase = this.nextPhase;
     let control = this.control;
     let measuring = this.measuring;
+    let phase = this.phase;
+    let callsSeen = this.callsSeen;
+    let overflowIntensity = this.overflowIntensity;
+    let halfTaken = this.halfTaken;
+    let halfTime = this.halfTime;
+    let halfBusy = this.halfBusyIntegral;
+    let halfOrbit = this.halfOrbitIntegral;
+    let halfQueue = this.halfQueueIntegral;
+    const halfCalls = this.halfCalls;
+    const halfSpan = this.halfSpan;
+    let measureStart = this.measureStart;
     let t = this.t;
     let busy = this.busy;
     let orbit = this.orbit;
@@ -491,8 +551,16 @@ export class FastReplication {
     let nearIntensity = this.nearRefusalIntensityIntegral;
     let nearDraws = this.nearRefusalHoldingDraws;
     let nearSum = this.nearRefusalHoldingSum;
+    let gapDeviation = this.nearRefusalGapDeviation;
+    let sojournDeviation = this.phaseSojournDeviation;
+    let nearSojournDeviation = this.nearRefusalPhaseSojournDeviation;
     let finished = false;
-    const limit = events + maxEvents;
+    // The first slice is short, so that the code after the loop runs (and V8 records what it
+    // meets there) before the loop is optimised: reached first from optimised code, it would
+    // deoptimise the loop in every new process or thread. The caller just asks again.
+    const cap = this.sliceCap;
+    this.sliceCap = Infinity;
+    const limit = events + (maxEvents < cap ? maxEvents : cap);
     while (events < limit) {
       let next = hn > 0 ? ht[0] : Infinity;
       let source = 0; // 0 heap, 1 phase change, 2 fresh arrival
@@ -515,22 +583,22 @@ export class FastReplication {
       // Integrate the state over [t, to): the same operations, in the same order, as engine.ts.
       const to = atControl ? control : next;
       const dt = to - t;
+      // The orbit and the waiting line stay empty without retrials and waiting positions: their
+      // integrals would only add zeros (exactly), so they are skipped.
       occupancy[busy] += dt;
       busyIntegral += busy * dt;
-      orbitIntegral += orbit * dt;
-      queueIntegral += waiting * dt;
-      const refusing = busy === servers && waiting === waitingPositions;
-      const near = busy + waiting >= nearLevel;
+      if (retrying) orbitIntegral += orbit * dt;
       if (waitingPositions > 0) {
-        if (refusing) refusingTime += dt;
-        if (near) nearTime += dt;
+        queueIntegral += waiting * dt;
+        if (busy === servers && waiting === waitingPositions) refusingTime += dt;
+        if (busy + waiting >= nearLevel) nearTime += dt;
       }
       if (integrated) {
-        const intensity = kind === A_MMPP ? phaseRates[this.phase] * dt : finite ? (sources - busy - orbit - waiting) * idleRate * dt : this.overflowIntensity * dt;
+        const intensity = mmpp ? phaseRates[phase] * dt : finite ? (sources - busy - orbit - waiting) * idleRate * dt : overflowIntensity * dt;
         if (intensity >= 0) {
           intensityIntegral += intensity;
-          if (refusing) refusingIntensityIntegral += intensity;
-          if (near) nearIntensity += intensity;
+          if (busy === servers && waiting === waitingPositions) refusingIntensityIntegral += intensity;
+          if (busy + waiting >= nearLevel) nearIntensity += intensity;
         }
       }
       t = to;
@@ -545,10 +613,12 @@ export class FastReplication {
         control = this.control;
         calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
         busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
-        nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
+        nearTime = nearCalls = nearIntensity = nearDraws = nearSum = gapDeviation = sojournDeviation = nearSojournDeviation = 0;
+        halfTaken = false;
+        halfTime = halfBusy = halfOrbit = halfQueue = 0;
+        measureStart = this.measureStart;
         continue;
       }
-      events++;
 
       // What the event asks for: `tries` attempts numbered `attempt`, fresh or repeated.
       let tries = 0;
@@ -558,73 +628,103 @@ export class FastReplication {
       // At most one heap entry from the event itself (a primary or a waiting call taking a server).
       let pushTime = 0;
       let pushData = -1;
-      // A departure's holding time is drawn where it is pushed (one draw site the compiler inlines);
+      // A departure's holding time is drawn where it is pushed (one draw site);
       // `servedLevel` is the level the call saw, -1 for a primary call (not counted).
       let served = false;
       let servedLevel = -1;
       let primary = false;
       let overflowed = -1;
+      // The next fresh arrival instant is drawn at the end of the event (one draw site): after every
+      // fresh arrival and phase change, and after every event for finite sources (the idle count
+      // may have changed; the clock is memoryless).
+      let redraw = finite;
       if (source === 2) {
+        redraw = true;
         if (overflow) {
-          const u = ar.next();
+          const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+          ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+          const u = (out >>> 0) * U_STEP + U_HALF;
           let i = 0;
-          while (u > this.primaryChoice[i]) i++;
-          if (this.primaryBusy[i] < this.primaryServers[i]) {
+          while (u > primaryChoice[i]) i++;
+          if (primaryBusy[i] < primaryServers[i]) {
             if (measuring) this.primaryArrivals[i]++;
-            if (++this.primaryBusy[i] === this.primaryServers[i]) this.overflowIntensity += this.primaryRates[i];
+            if (++primaryBusy[i] === primaryServers[i]) overflowIntensity += primaryRates[i];
             served = true;
             pushData = i * 4 + K_PRIMARY_DEPARTURE;
-            nextArrival = t + (zig ? zigExponential(ar) : -Math.log(ar.next())) / rate;
             primary = true;
           } else overflowed = i;
         }
-      }
-      if (source === 2 && !primary) {
-        if (!measuring && this.callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
-          this.t = t;
-          this.startMeasuring();
-          measuring = true;
-          control = this.control;
-          calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
-          busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
-          nearTime = nearCalls = nearIntensity = nearDraws = nearSum = 0;
+        if (!primary) {
+          if (!measuring && callsSeen >= this.warmupCallsTarget && this.warmupTimeTarget === 0) {
+            this.t = t;
+            this.startMeasuring();
+            measuring = true;
+            control = this.control;
+            calls = blockedFirst = attempts = blockedAttempts = lost = admitted = holdingDraws = 0;
+            busyIntegral = orbitIntegral = queueIntegral = refusingTime = intensityIntegral = refusingIntensityIntegral = holdingSum = 0;
+            nearTime = nearCalls = nearIntensity = nearDraws = nearSum = gapDeviation = sojournDeviation = nearSojournDeviation = 0;
+            halfTaken = false;
+            halfTime = halfBusy = halfOrbit = halfQueue = 0;
+            measureStart = this.measureStart;
+          }
+          if (measuring && calls >= callsTarget) {
+            finished = true; // this arrival is not part of the run (nor counted among its events)
+            break;
+          }
+          if (overflowed >= 0 && measuring) {
+            this.primaryArrivals[overflowed]++;
+            this.primaryOverflows[overflowed]++;
+          }
+          if (traceEvery > 0 && callsSeen >= this.nextTrace) {
+            this.traceTime.push(t);
+            this.traceBusy.push(busyIntegral);
+            this.traceOrbit.push(orbitIntegral);
+            this.traceQueue.push(queueIntegral);
+            this.traceCalls.push(callsSeen);
+            while (this.nextTrace <= callsSeen) this.nextTrace += traceEvery;
+          }
+          if (kind === A_BATCH) {
+            ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+            tries = +this.batchSize!.sample(ar);
+            ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+            refuseAll = this.allOrNothing && tries > servers - busy + waitingPositions - waiting;
+            if (refuseAll && busy + waiting >= nearLevel) nearCalls += tries;
+          } else tries = 1;
+          callsSeen += tries;
+          calls += tries;
         }
-        if (measuring && calls >= callsTarget) {
-          events--;
-          finished = true;
-          break;
-        }
-        if (overflowed >= 0 && measuring) {
-          this.primaryArrivals[overflowed]++;
-          this.primaryOverflows[overflowed]++;
-        }
-        if (traceEvery > 0 && this.callsSeen >= this.nextTrace) {
-          this.traceTime.push(t);
-          this.traceBusy.push(busyIntegral);
-          this.traceOrbit.push(orbitIntegral);
-          this.traceQueue.push(queueIntegral);
-          this.traceCalls.push(this.callsSeen);
-          while (this.nextTrace <= this.callsSeen) this.nextTrace += traceEvery;
-        }
-        if (kind === A_BATCH) {
-          tries = this.batchSize!.sample(ar);
-          refuseAll = this.allOrNothing && tries > servers - busy + waitingPositions - waiting;
-          if (refuseAll && busy + waiting >= nearLevel) nearCalls += tries;
-        } else tries = 1;
-        this.callsSeen += tries;
-        calls += tries;
       } else if (source === 1) {
-        const jump = this.phaseJump[this.phase];
-        const u = ar.next();
+        // A phase change (enterPhase: the phase's sojourn clock first, its arrival clock below).
+        const jump = phaseJump[phase];
+        const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+        ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+        const u = (out >>> 0) * U_STEP + U_HALF;
         let j = 0;
         while (u > jump[j]) j++;
-        this.phase = j;
-        this.t = t;
-        this.enterPhase(busy + waiting);
-        nextPhase = this.nextPhase;
-        nextArrival = this.nextArrival;
-        continue;
-      } else if (source === 0) {
+        phase = j;
+        const exit = phaseOut[phase];
+        if (exit > 0) {
+          // Sojourn x exit rate: a unit exponential.
+          const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+          ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+          const w = out >>> 0, iz = out & 255;
+          let e = 0;
+          if (!zig) e = -Math.log(w * U_STEP + U_HALF);
+          else if (w < ke[iz]) e = w * we[iz];
+          else {
+            ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+            e = +exponentialFix(ar, w, iz);
+            ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+          }
+          nextPhase = t + e / exit;
+          if (measuring) {
+            const deviation = (e - 1) * phaseWeight[phase];
+            sojournDeviation += deviation;
+            if (busy + waiting >= nearLevel) nearSojournDeviation += deviation;
+          }
+        } else nextPhase = Infinity;
+        redraw = true;
+      } else {
         const data = hd[0];
         // Remove the root: the last entry sifts down from the top.
         const n = --hn;
@@ -663,9 +763,9 @@ export class FastReplication {
             pushData = K_DEPARTURE;
             break;
           }
-          if (waiting === 0) this.queueHead = this.queueTail; // drop abandoned leftovers
+          if (waiting === 0 && waitingPositions > 0) this.queueHead = this.queueTail; // drop abandoned leftovers (no line, no leftovers)
         } else if (k === K_PRIMARY_DEPARTURE) {
-          if (this.primaryBusy[payload]-- === this.primaryServers[payload]) this.overflowIntensity -= this.primaryRates[payload];
+          if (primaryBusy[payload]-- === primaryServers[payload]) overflowIntensity -= primaryRates[payload];
         } else if (k === K_RETRY) {
           orbit--;
           tries = 1;
@@ -707,22 +807,109 @@ export class FastReplication {
             this.queueArrival[pos] = t;
             this.queueAlive[pos] = 1;
             if (patience) {
-              pushTime = t + draw(patience, this.patienceRng);
+              pushTime = t + +draw(patience, this.patienceRng);
               pushData = id * 4 + K_ABANDON;
             }
           } else {
             blockedAttempts++;
             if (fresh) blockedFirst++;
-            if (retryDelay && attempt < maxAttempts && rr.next() < persistence) {
+            let retry = false;
+            if (retryDelay && attempt < maxAttempts) {
+              const m = Math.imul(rr1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = rr1 << 9;
+              rr2 ^= rr0; rr3 ^= rr1; rr1 ^= rr2; rr0 ^= rr3; rr2 ^= s; rr3 = (rr3 << 11) | (rr3 >>> 21);
+              retry = (out >>> 0) * U_STEP + U_HALF < persistence;
+            }
+            if (retry) {
               orbit++;
-              pushTime = t + draw(retryDelay, rr);
+              // The retry delay on the retry stream (the law written out as for the holding time below).
+              let delay = 0;
+              if (dlFast) {
+                let scale = dlA;
+                if (dlCode === ZIG_HYPEREXPONENTIAL) {
+                  const m = Math.imul(rr1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = rr1 << 9;
+                  rr2 ^= rr0; rr3 ^= rr1; rr1 ^= rr2; rr0 ^= rr3; rr2 ^= s; rr3 = (rr3 << 11) | (rr3 >>> 21);
+                  const u = (out >>> 0) * U_STEP + U_HALF;
+                  let i = 0;
+                  while (i < dlTable.length - 1 && u > dlTable[i]) i++;
+                  scale = dlValues[i];
+                }
+                const m = Math.imul(rr1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = rr1 << 9;
+                rr2 ^= rr0; rr3 ^= rr1; rr1 ^= rr2; rr0 ^= rr3; rr2 ^= s; rr3 = (rr3 << 11) | (rr3 >>> 21);
+                if (dlCode === ZIG_LOGNORMAL) {
+                  const iz = out & 127;
+                  let z = 0;
+                  if (Math.abs(out) < kn[iz]) z = out * wn[iz];
+                  else {
+                    rr.a = rr0; rr.b = rr1; rr.c = rr2; rr.d = rr3;
+                    z = +normalFix(rr, out, iz);
+                    rr0 = rr.a; rr1 = rr.b; rr2 = rr.c; rr3 = rr.d;
+                  }
+                  delay = Math.exp(dlA + dlB * z);
+                } else {
+                  const w = out >>> 0, iz = out & 255;
+                  let e = 0;
+                  if (w < ke[iz]) e = w * we[iz];
+                  else {
+                    rr.a = rr0; rr.b = rr1; rr.c = rr2; rr.d = rr3;
+                    e = +exponentialFix(rr, w, iz);
+                    rr0 = rr.a; rr1 = rr.b; rr2 = rr.c; rr3 = rr.d;
+                  }
+                  delay = scale * e;
+                }
+              } else {
+                rr.a = rr0; rr.b = rr1; rr.c = rr2; rr.d = rr3;
+                delay = +retryDelay!.sample(rr);
+                rr0 = rr.a; rr1 = rr.b; rr2 = rr.c; rr3 = rr.d;
+              }
+              pushTime = t + delay;
               pushData = attempt * 4 + K_RETRY;
             } else lost++;
           }
           if (pushData < 0) continue;
         }
         if (served) {
-          const h = draw(holding, hr);
+          // The holding time on the holding stream: LawSampler.sample's operations, in its order,
+          // for the ziggurat exponential, hyperexponential and lognormal laws; any other law is
+          // sampled by the sampler itself.
+          let h = 0;
+          if (hlFast) {
+            let scale = hlA;
+            if (hlCode === ZIG_HYPEREXPONENTIAL) {
+              const m = Math.imul(hr1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = hr1 << 9;
+              hr2 ^= hr0; hr3 ^= hr1; hr1 ^= hr2; hr0 ^= hr3; hr2 ^= s; hr3 = (hr3 << 11) | (hr3 >>> 21);
+              const u = (out >>> 0) * U_STEP + U_HALF;
+              let i = 0;
+              while (i < hlTable.length - 1 && u > hlTable[i]) i++;
+              scale = hlValues[i];
+            }
+            const m = Math.imul(hr1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = hr1 << 9;
+            hr2 ^= hr0; hr3 ^= hr1; hr1 ^= hr2; hr0 ^= hr3; hr2 ^= s; hr3 = (hr3 << 11) | (hr3 >>> 21);
+            if (hlCode === ZIG_LOGNORMAL) {
+              const iz = out & 127;
+              let z = 0;
+              if (Math.abs(out) < kn[iz]) z = out * wn[iz];
+              else {
+                hr.a = hr0; hr.b = hr1; hr.c = hr2; hr.d = hr3;
+                z = +normalFix(hr, out, iz);
+                hr0 = hr.a; hr1 = hr.b; hr2 = hr.c; hr3 = hr.d;
+              }
+              h = Math.exp(hlA + hlB * z);
+            } else {
+              const w = out >>> 0, iz = out & 255;
+              let e = 0;
+              if (w < ke[iz]) e = w * we[iz];
+              else {
+                hr.a = hr0; hr.b = hr1; hr.c = hr2; hr.d = hr3;
+                e = +exponentialFix(hr, w, iz);
+                hr0 = hr.a; hr1 = hr.b; hr2 = hr.c; hr3 = hr.d;
+              }
+              h = scale * e;
+            }
+          } else {
+            hr.a = hr0; hr.b = hr1; hr.c = hr2; hr.d = hr3;
+            h = +holding.sample(hr);
+            hr0 = hr.a; hr1 = hr.b; hr2 = hr.c; hr3 = hr.d;
+          }
           if (servedLevel >= 0) {
             holdingDraws++;
             holdingSum += h;
@@ -751,29 +938,106 @@ export class FastReplication {
         ht[i] = pushTime;
         hd[i] = pushData;
       }
-      if (source === 2 && !primary) {
-        if (measuring && !this.halfTaken && (calls >= this.halfCalls || t - this.measureStart >= this.halfSpan)) {
-          this.halfTaken = true;
-          this.halfTime = t - this.measureStart;
-          this.halfBusyIntegral = busyIntegral;
-          this.halfOrbitIntegral = orbitIntegral;
-          this.halfQueueIntegral = queueIntegral;
+      if (redraw) {
+        if (source === 2 && !primary && measuring && !halfTaken) {
+          // The first half's figures: locals only (stored at the end of the slice), since code
+          // first reached in the optimised loop deoptimises it (see the first slice above).
+          const elapsed = t - measureStart;
+          if (calls >= halfCalls || elapsed >= halfSpan) {
+            halfTaken = true;
+            halfTime = elapsed;
+            halfBusy = busyIntegral;
+            halfOrbit = orbitIntegral;
+            halfQueue = queueIntegral;
+          }
         }
-        // Poisson-timed and renewal arrivals inline (a call would return the instant boxed).
-        if (poissonTimed) nextArrival = t + (zig ? zigExponential(ar) : -Math.log(ar.next())) / rate;
-        else if (kind === A_RENEWAL) {
-          const gap = draw(interarrival!, ar);
-          if (measuring && busy + waiting >= nearLevel) this.nearRefusalGapDeviation += gap / interarrivalMean - 1;
+        if (renewal) {
+          // The interarrival gap on the arrival stream (the law written out as for the holding time).
+          let gap = 0;
+          if (glFast) {
+            let scale = glA;
+            if (glCode === ZIG_HYPEREXPONENTIAL) {
+              const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+              ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+              const u = (out >>> 0) * U_STEP + U_HALF;
+              let i = 0;
+              while (i < glTable.length - 1 && u > glTable[i]) i++;
+              scale = glValues[i];
+            }
+            const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+            ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+            if (glCode === ZIG_LOGNORMAL) {
+              const iz = out & 127;
+              let z = 0;
+              if (Math.abs(out) < kn[iz]) z = out * wn[iz];
+              else {
+                ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+                z = +normalFix(ar, out, iz);
+                ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+              }
+              gap = Math.exp(glA + glB * z);
+            } else {
+              const w = out >>> 0, iz = out & 255;
+              let e = 0;
+              if (w < ke[iz]) e = w * we[iz];
+              else {
+                ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+                e = +exponentialFix(ar, w, iz);
+                ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+              }
+              gap = scale * e;
+            }
+          } else {
+            ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+            gap = +interarrival!.sample(ar);
+            ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+          }
+          if (measuring && busy + waiting >= nearLevel) gapDeviation += gap / interarrivalMean - 1;
           nextArrival = t + gap;
+        } else {
+          // A unit exponential over the current rate (freshArrivalAfter's cases, the same operations).
+          let r = rate;
+          let live = true;
+          if (mmpp) {
+            r = phaseRates[phase];
+            live = r > 0;
+          } else if (finite) {
+            const idle = sources - busy - orbit - waiting;
+            r = idle * idleRate;
+            live = idle > 0;
+          }
+          if (live) {
+            const m = Math.imul(ar1, 5), out = Math.imul((m << 7) | (m >>> 25), 9), s = ar1 << 9;
+            ar2 ^= ar0; ar3 ^= ar1; ar1 ^= ar2; ar0 ^= ar3; ar2 ^= s; ar3 = (ar3 << 11) | (ar3 >>> 21);
+            const w = out >>> 0, iz = out & 255;
+            let e = 0;
+            if (!zig) e = -Math.log(w * U_STEP + U_HALF);
+            else if (w < ke[iz]) e = w * we[iz];
+            else {
+              ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+              e = +exponentialFix(ar, w, iz);
+              ar0 = ar.a; ar1 = ar.b; ar2 = ar.c; ar3 = ar.d;
+            }
+            nextArrival = t + e / r;
+          } else nextArrival = Infinity;
         }
-        else nextArrival = this.freshArrivalAfter(t, busy, orbit, waiting);
-      } else if (finite) nextArrival = this.freshArrivalAfter(t, busy, orbit, waiting); // idle count changed; the clock is memoryless
+      }
+      // Counted here, at the end, so that the run's last arrival (which breaks out above) is not:
+      // code first reached in the optimised loop (an `events--` there) deoptimises it.
+      events++;
     }
+    ar.a = ar0; ar.b = ar1; ar.c = ar2; ar.d = ar3;
+    hr.a = hr0; hr.b = hr1; hr.c = hr2; hr.d = hr3;
+    rr.a = rr0; rr.b = rr1; rr.c = rr2; rr.d = rr3;
     this.heapSize = hn;
     this.t = t;
     this.busy = busy;
     this.orbit = orbit;
     this.waiting = waiting;
+    this.phase = phase;
+    this.callsSeen = callsSeen;
+    this.overflowIntensity = overflowIntensity;
+    this.nextPhase = nextPhase;
     this.nextArrival = nextArrival;
     this.events = events;
     this.calls = calls;
@@ -795,7 +1059,15 @@ export class FastReplication {
     this.nearRefusalIntensityIntegral = nearIntensity;
     this.nearRefusalHoldingDraws = nearDraws;
     this.nearRefusalHoldingSum = nearSum;
-    if (finished) this.done = true;
+    this.nearRefusalGapDeviation = gapDeviation;
+    this.phaseSojournDeviation = sojournDeviation;
+    this.nearRefusalPhaseSojournDeviation = nearSojournDeviation;
+    this.halfTaken = halfTaken;
+    this.halfTime = halfTime;
+    this.halfBusyIntegral = halfBusy;
+    this.halfOrbitIntegral = halfOrbit;
+    this.halfQueueIntegral = halfQueue;
+    this.done = finished;
     return finished;
   }
 

@@ -21,11 +21,14 @@ const EXPONENTIAL_V = 3.949659822581572e-3;
 export const NORMAL_R = 3.442619855899;
 const NORMAL_V = 9.91256303526217e-3;
 
-const ke = new Float64Array(256);
-const we = new Float64Array(256);
+// The layers' acceptance bounds (k) and widths (w) are exported, with the slow paths, for loops that
+// write the fast path out with the generator's words in locals (fast-loop.ts): a draw called there
+// returns its double boxed.
+export const ke = new Float64Array(256);
+export const we = new Float64Array(256);
 const fe = new Float64Array(256);
-const kn = new Float64Array(128);
-const wn = new Float64Array(128);
+export const kn = new Float64Array(128);
+export const wn = new Float64Array(128);
 const fn = new Float64Array(128);
 
 {
@@ -73,7 +76,8 @@ export function zigExponential(rng: Random): number {
   return exponentialFix(rng, jz, iz);
 }
 
-function exponentialFix(rng: Random, jz: number, iz: number): number {
+/** zigExponential's slow path: `jz` is the word that missed the fast path, `iz` its layer. */
+export function exponentialFix(rng: Random, jz: number, iz: number): number {
   for (;;) {
     if (iz === 0) return EXPONENTIAL_R - Math.log(rng.next());
     const x = jz * we[iz];
@@ -92,7 +96,8 @@ export function zigNormal(rng: Random): number {
   return normalFix(rng, hz, iz);
 }
 
-function normalFix(rng: Random, hz: number, iz: number): number {
+/** zigNormal's slow path: `hz` is the signed word that missed the fast path, `iz` its layer. */
+export function normalFix(rng: Random, hz: number, iz: number): number {
   for (;;) {
     const x = hz * wn[iz];
     if (iz === 0) {
