@@ -489,7 +489,9 @@ function solvePeriodicBirthDeath(m: BirthDeath, profile: ReadonlyArray<{ duratio
     // The start's error in plain W1 units, grown at most by `growth` along the cycle.
     const startValueError = (c.growth * startError) / c.minU;
     history.push(step);
-    const stalled = history.length > window && step > 0.5 * history[history.length - 1 - window];
+    // Stalled: the step no longer halves over the window (rounding), or it is already below the
+    // cycle's own numerical error, which then floors the bound whatever the number of cycles.
+    const stalled = (history.length > window && step > 0.5 * history[history.length - 1 - window]) || step <= r.lawError;
     if (startValueError > tolerance && !stalled && cycles < maxCycles) continue;
     if (startValueError > tolerance && !stalled) throw new TeletrafficConvergenceError(`periodic solution not within ${tolerance} after ${cycles} cycles (bound ${startValueError})`, cycles);
     let worst = 0;

@@ -42,7 +42,7 @@ import { profileField, refineProfileHasTraffic, timeVaryingHoldingField } from "
 
 export const MAX_PERIODIC_RETRIAL_STATES = 400_000;
 /** State updates (both bounding laws) answered interactively, about 100 ms. */
-export const INTERACTIVE_PERIODIC_RETRIAL_WORK = 15_000_000;
+export const INTERACTIVE_PERIODIC_RETRIAL_WORK = 13_000_000;
 export const MAX_PERIODIC_RETRIAL_WORK = 5_000_000_000;
 
 const meanField = (what: string) => z.number().gt(0).max(1e12).describe(what);
@@ -154,8 +154,12 @@ function termsPerCycle(c: Chain, profile: ReadonlyArray<{ duration: number; rate
   return terms;
 }
 
-/** Cycles a typical case needs (measured: the bounding laws start at the extreme rates' equilibria). */
-const TYPICAL_CYCLES = 6;
+/**
+ * Cycles the bracket needs to close, about 30 (holding time + retry delay) over the cycle length,
+ * at least 3 (measured with the bounding laws started at the extreme rates' equilibria: 5, 9 and 12
+ * cycles for cycles of 12, 8 and 6 holding times at a retry delay of one holding time).
+ */
+const cyclesEstimate = (v: Parsed) => Math.max(3, Math.ceil((30 * (v.meanHolding + v.meanRetryDelay)) / cycleOf(v.profile).cycle));
 
 /**
  * Estimated state updates (both bounding laws, a typical number of cycles) and the cap, from the
@@ -166,7 +170,7 @@ export function periodicRetrialWork(input: PeriodicRetrialInput): number {
   if (!v.success) return Infinity;
   try {
     const c = chainOf(v.data, initialCap(v.data));
-    return 2 * (c.kMax + 1) * (c.cap + 1) * termsPerCycle(c, v.data.profile) * TYPICAL_CYCLES;
+    return 2 * (c.kMax + 1) * (c.cap + 1) * termsPerCycle(c, v.data.profile) * cyclesEstimate(v.data);
   } catch {
     return Infinity;
   }
