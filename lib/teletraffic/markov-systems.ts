@@ -118,8 +118,15 @@ function evaluate(v: MarkovFields, what: string): MarkovSystemResult {
 /** Exact retrial model (Falin & Templeton 1997, "Retrial Queues", ch. 1–2, the M/M/c retrial queue with persistence). */
 export function retrialLossSystem(input: RetrialLossInput): RetrialLossResult {
   const v = parseInput(retrialLossInputSchema, input);
-  if (v.traffic !== undefined && v.persistence === 1 && v.meanPatience === undefined && v.traffic >= v.servers)
-    throw inputError("traffic", `with persistence 1 the orbit is stable only for traffic below the number of servers (${v.servers})`);
+  // With persistence 1 the orbit never gives up: a full group clears N/h by service and Q/patience by abandonment.
+  const clearable = v.servers + (v.meanPatience !== undefined ? (v.waitingPositions * v.meanHolding) / v.meanPatience : 0);
+  if (v.traffic !== undefined && v.persistence === 1 && v.traffic >= clearable)
+    throw inputError(
+      "traffic",
+      v.meanPatience === undefined
+        ? `with persistence 1 the orbit is stable only for traffic below the number of servers (${v.servers})`
+        : `with persistence 1 the orbit is stable only for traffic below N + Q × holding/patience (${Number(clearable.toPrecision(6))} erlangs)`,
+    );
   const result: RetrialLossResult = { ...evaluate(v, "retrial model"), persistence: v.persistence };
   if (v.traffic !== undefined && v.waitingPositions === 0 && v.persistence < 1) {
     const e = extendedErlangB({ servers: v.servers, traffic: v.traffic, persistence: v.persistence });

@@ -624,7 +624,7 @@ export function periodicQueueSystem(input: PeriodicQueueInput): PeriodicQueueRes
   const model: BirthDeath = { servers: n, capacity: n + q, mu: 1 / h, alpha };
   // No contraction to bound (no patience, the room overloaded most of the cycle): the chain is still
   // monotone, so the bracketed solver gives the values with a stated error instead.
-  const bracketed = () => bracketedQueue(periodicRetrialSystem(bracketedQueueInput(n, q, profile, h, meanPatience, tolerance)), tolerance);
+  const bracketed = () => bracketedQueue(periodicRetrialSystem(bracketedQueueInput(n, q, profile, h, meanPatience, tolerance)));
   if (!chooseContraction(model, profile, tolerance)) return bracketed();
   const sol = solvePeriodicBirthDeath(model, profile, h, tolerance);
   // Weights spanning many orders over a large room can leave the contraction bound far above the
@@ -689,7 +689,7 @@ export function periodicQueueSystem(input: PeriodicQueueInput): PeriodicQueueRes
 /** Contraction bounds above this are retried with the bracketed solver. */
 const BRACKET_ABOVE = 1e-8;
 
-function bracketedQueue(r: PeriodicRetrialResult, tolerance: number): PeriodicQueueResult {
+function bracketedQueue(r: PeriodicRetrialResult): PeriodicQueueResult {
   return {
     method: r.method,
     servers: r.servers,
@@ -705,8 +705,9 @@ function bracketedQueue(r: PeriodicRetrialResult, tolerance: number): PeriodicQu
     meanQueueLength: r.meanQueueLength,
     abandonmentProbability: r.abandonmentProbability,
     lossProbability: r.lossProbability,
-    errorBound: r.errorBound,
-    tolerance,
+    // The bracketed bound is relative for means above 1; this result's bound is absolute throughout.
+    errorBound: r.errorBound * Math.max(1, r.carriedTraffic, r.meanQueueLength, r.meanWait, ...r.segments.map((g) => Math.max(g.carriedTraffic, g.meanQueueLength))),
+    tolerance: r.tolerance,
     cycles: r.cycles,
     steps: r.steps,
   };

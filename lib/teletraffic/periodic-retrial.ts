@@ -36,8 +36,8 @@ import { profileField, refineProfileHasTraffic, timeVaryingHoldingField } from "
  * The cap: the chain at the constant highest rate dominates the periodic one, so when that chain
  * is stable its stationary orbit tail bounds the periodic tail at every instant; M is where that
  * tail falls below TRUNCATION_BOUND (retrial-chain.ts). When the peak overloads an orbit that never
- * gives up (p = 1, no patience), M starts from the mean rate and is doubled until the periodic law's
- * own extrapolated tail at the segment ends is below the bound.
+ * gives up (p = 1 and a peak above N/h + Q/patience), M starts from the mean rate and is doubled until
+ * the upper law's own extrapolated tail, watched at every step of the cycle, is below the bound.
  */
 
 export const MAX_PERIODIC_RETRIAL_STATES = 400_000;
@@ -67,8 +67,18 @@ export const periodicRetrialInputSchema = z
     refineProfileHasTraffic(v.profile, ctx);
     if (v.meanPatience !== undefined && v.waitingPositions === 0) ctx.addIssue({ code: "custom", path: ["meanPatience"], message: "needs waitingPositions > 0" });
     const { cycle, meanRate } = cycleOf(v.profile);
-    if (cycle > 0 && v.persistence === 1 && v.meanPatience === undefined && meanRate * v.meanHolding >= v.servers)
-      ctx.addIssue({ code: "custom", path: ["profile"], message: `with persistence 1 and no patience the orbit is stable only for mean traffic below the number of servers (${v.servers}); the profile offers ${(meanRate * v.meanHolding).toPrecision(4)} erlangs` });
+    if (cycle > 0 && v.persistence === 1 && !belowExitCapacity(v, meanRate))
+      ctx.addIssue({
+        code: "custom",
+        path: ["profile"],
+        message: `with persistence 1 the orbit never gives up, so it is stable only for a mean call rate below what the group can clear when full (N/h + Q/patience = ${exitCapacity(v).toPrecision(4)} per time unit); the profile offers ${meanRate.toPrecision(4)}`,
+      });
+    // zod runs this even when a field failed: size the work only for a well-formed input
+    if (ctx.issues.length === 0 && Number.isInteger(v.servers) && v.servers >= 1) {
+      const work = workOf(v as Parsed);
+      if (!Number.isFinite(work)) ctx.addIssue({ code: "custom", path: ["profile"], message: `the orbit of retrying calls needs more than ${MAX_PERIODIC_RETRIAL_STATES} states at this load` });
+      else if (work > MAX_PERIODIC_RETRIAL_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_RETRIAL_WORK} state updates` });
+    }
   })
   .describe("time-varying Poisson fresh calls on N servers (+ Q waiting positions) with an orbit of retrying calls: exact periodic measures per segment and over the cycle, with a stated error bound");
 export type PeriodicRetrialInput = z.input<typeof periodicRetrialInputSchema>;
@@ -167,10 +177,14 @@ const cyclesEstimate = (v: Parsed) => Math.max(3, Math.ceil((30 * (v.meanHolding
  */
 export function periodicRetrialWork(input: PeriodicRetrialInput): number {
   const v = periodicRetrialInputSchema.safeParse(input);
-  if (!v.success) return Infinity;
+  // An input the schema refuses costs nothing: evaluating it answers with the input error at once.
+  return v.success ? workOf(v.data) : 0;
+}
+
+function workOf(v: Parsed): number {
   try {
-    const c = chainOf(v.data, initialCap(v.data));
-    return 2 * (c.kMax + 1) * (c.cap + 1) * termsPerCycle(c, v.data.profile) * cyclesEstimate(v.data);
+    const c = chainOf(v, initialCap(v));
+    return 2 * (c.kMax + 1) * (c.cap + 1) * termsPerCycle(c, v.profile) * cyclesEstimate(v);
   } catch {
     return Infinity;
   }
@@ -188,7 +202,11 @@ function chainOf(v: Parsed, cap: number): Chain {
   };
 }
 
-const peakStable = (v: Parsed, peak: number) => v.persistence < 1 || v.meanPatience !== undefined || peak * v.meanHolding < v.servers;
+/** The rate at which a full group clears calls: N/h by service, plus Q/patience by abandonment. */
+const exitCapacity = (v: Pick<Parsed, "servers" | "waitingPositions" | "meanHolding" | "meanPatience">) => v.servers / v.meanHolding + (v.meanPatience !== undefined ? v.waitingPositions / v.meanPatience : 0);
+const belowExitCapacity = (v: Pick<Parsed, "servers" | "waitingPositions" | "meanHolding" | "meanPatience">, rate: number) => rate < exitCapacity(v);
+/** The chain at the constant peak rate is stable (it then dominates the periodic one): an orbit that gives up, or a peak the group clears. */
+const peakStable = (v: Parsed, peak: number) => v.persistence < 1 || belowExitCapacity(v, peak);
 
 /** The first cap: from the dominating chain at the peak rate when it is stable, else twice the mean rate's. */
 function initialCap(v: Parsed): number {
@@ -311,11 +329,16 @@ function term(c: Chain, plan: Plan, v: Float64Array, u: Float64Array, out: Float
   }
 }
 
-/** Advances the law p (in place) through one cycle; returns the segments' integrals. */
-function runCycle(c: Chain, plans: Plan[], p: Float64Array, s: Scratch): { integrals: Integrals[]; steps: number; massLeft: number } {
+/**
+ * Advances the law p (in place) through one cycle; returns the segments' integrals and, when asked,
+ * the largest extrapolated orbit tail at the cap seen at any step of the cycle (the orbit may build
+ * up in a peak and drain before the cycle ends).
+ */
+function runCycle(c: Chain, plans: Plan[], p: Float64Array, s: Scratch, watchTail = false): { integrals: Integrals[]; steps: number; massLeft: number; tail: number } {
   const integrals: Integrals[] = [];
   let steps = 0;
   let massLeft = 0;
+  let tail = watchTail && c.cap >= 2 ? extrapolatedCapTail(p, c) : 0;
   for (const plan of plans) {
     s.occupation.fill(0);
     for (let step = 0; step < plan.steps; step++) {
@@ -339,10 +362,11 @@ function runCycle(c: Chain, plans: Plan[], p: Float64Array, s: Scratch): { integ
       p.set(s.out);
       massLeft += plan.massLeft;
       steps++;
+      if (watchTail && c.cap >= 2) tail = Math.max(tail, extrapolatedCapTail(p, c));
     }
     integrals.push(integralsOf(c, s.occupation));
   }
-  return { integrals, steps, massLeft };
+  return { integrals, steps, massLeft, tail };
 }
 
 /** The cycle's measures from the segments' integrals. */
@@ -408,6 +432,9 @@ function intervals(c: Chain, plans: Plan[], lo: Integrals[], hi: Integrals[]): {
     measuresOf(c, plans, corner((k) => (k === "busy" ? "lo" : "hi"))),
     measuresOf(c, plans, corner((k) => (k === "queue" ? "hi" : "lo"))),
     measuresOf(c, plans, corner((k) => (k === "queue" ? "lo" : "hi"))),
+    // waiting probability rises or falls with the queue integral, by the sign of busy − N·beyond
+    measuresOf(c, plans, corner((k) => (k === "beyond" ? "hi" : "lo"))),
+    measuresOf(c, plans, corner((k) => (k === "beyond" ? "lo" : "hi"))),
   ];
   const mid = { ...mLo };
   const half: Record<string, number> = {};
@@ -423,6 +450,7 @@ function intervals(c: Chain, plans: Plan[], lo: Integrals[], hi: Integrals[]): {
     segmentHalf = Math.max(segmentHalf, (hi[i].full - lo[i].full) / 2 / plan.duration, (hi[i].allBusy - lo[i].allBusy) / 2 / plan.duration);
     segmentHalf = Math.max(segmentHalf, (hi[i].busy - lo[i].busy) / 2 / plan.duration / Math.max(1, hi[i].busy / plan.duration));
     segmentHalf = Math.max(segmentHalf, (hi[i].orbit - lo[i].orbit) / 2 / plan.duration / Math.max(1, hi[i].orbit / plan.duration));
+    segmentHalf = Math.max(segmentHalf, (hi[i].queue - lo[i].queue) / 2 / plan.duration / Math.max(1, hi[i].queue / plan.duration));
   });
   return { mid, half, segmentHalf };
 }
@@ -454,7 +482,7 @@ interface Solved {
   segments: PeriodicRetrialSegment[];
   cycles: number;
   steps: number;
-  /** Largest extrapolated orbit tail at the cap over the segment ends (upper law). */
+  /** Largest extrapolated orbit tail at the cap over every step of the last cycle (upper law). */
   tail: number;
 }
 
@@ -482,7 +510,7 @@ function solveWithCap(v: Parsed, cap: number): Solved {
   let massLeft = 0;
   for (let cycles = 1; ; cycles++) {
     const a = runCycle(c, plans, lower, sLo);
-    const b = runCycle(c, plans, upper, sHi);
+    const b = runCycle(c, plans, upper, sHi, true);
     steps += a.steps + b.steps;
     massLeft += a.massLeft + b.massLeft;
     const { mid, half, segmentHalf } = intervals(c, plans, a.integrals, b.integrals);
@@ -491,15 +519,19 @@ function solveWithCap(v: Parsed, cap: number): Solved {
     const errorBound = Math.max(segmentHalf, ...Object.values(half)) + numerical;
     if (errorBound <= v.tolerance || cycles >= maxCycles) {
       if (errorBound > v.tolerance)
-        throw new TeletrafficConvergenceError(`periodic retrial solution not within ${v.tolerance} after ${cycles} cycles (interval half-width ${errorBound.toExponential(2)}): the orbit relaxes too slowly over a cycle`, cycles);
+        throw new TeletrafficConvergenceError(
+          `periodic retrial solution not within ${v.tolerance} after ${cycles} cycles (interval half-width ${errorBound.toExponential(2)}): the orbit relaxes too slowly over a cycle${
+            peakStable(v, Math.max(...rates)) ? "" : " (persistence 1 with a peak above what the group clears: the upper bound starts from a full orbit, which drains only slowly)"
+          }`,
+          cycles,
+        );
       const segments = plans.map((plan, i) => {
         const l = a.integrals[i];
         const h = b.integrals[i];
         const avg = (key: keyof Integrals) => (l[key] + h[key]) / 2 / plan.duration;
         return { start: plan.start, duration: plan.duration, rate: plan.rate, firstAttemptBlocking: avg("full"), timeCongestion: avg("allBusy"), carriedTraffic: avg("busy"), meanOrbit: avg("orbit"), meanQueueLength: avg("queue") };
       });
-      let tail = 0;
-      if (cap >= 2) tail = Math.max(tail, extrapolatedCapTail(upper, c));
+      const tail = b.tail;
       return { chain: c, plans, mid, errorBound, segments, cycles, steps, tail };
     }
   }

@@ -59,6 +59,7 @@ function dense(c: Case, cap: number) {
     const occ = occupations[s];
     let full = 0;
     let segmentOrbit = 0;
+    let segmentQueue = 0;
     for (let o = 0; o <= cap; o++)
       for (let k = 0; k <= kMax; k++) {
         const x = occ[id(k, o)];
@@ -69,6 +70,7 @@ function dense(c: Case, cap: number) {
         queue += Math.max(0, k - n) * x;
         orbit += o * x;
         segmentOrbit += o * x;
+        segmentQueue += Math.max(0, k - n) * x;
         if (k >= n) allBusy += x;
         if (k === kMax) {
           full += x;
@@ -80,7 +82,7 @@ function dense(c: Case, cap: number) {
           if (k >= n) toWait += attempts;
         }
       }
-    return { firstAttemptBlocking: full / duration, meanOrbit: segmentOrbit / duration };
+    return { firstAttemptBlocking: full / duration, meanOrbit: segmentOrbit / duration, meanQueueLength: segmentQueue / duration };
   });
   lost += alpha * queue;
   const cycle = c.profile.reduce((a, g) => a + g.duration, 0);
@@ -133,6 +135,21 @@ describe("exact retrials under a time-varying load (periodic forward equations, 
     for (const key of ["attemptsPerCall", "meanOrbit", "carriedTraffic", "meanWait", "meanQueueLength"] as const) expect(Math.abs(r[key] - s[key]) / s[key], key).toBeLessThan(1e-9);
   });
 
+  it("persistence 1 without patience loses no call: the orbit cap follows the orbit's build-up inside the cycle, not only at its end", () => {
+    // A 12-unit peak at 3 calls per unit on one server (h = 0.5) builds an orbit that drains before the
+    // cycle ends; checking the cap's tail only at the end kept a cap of 42 and lost 4.7e-6 of the calls.
+    const r = periodicRetrialSystem({ servers: 1, meanHolding: 0.5, persistence: 1, meanRetryDelay: 0.4, profile: [{ duration: 12, rate: 3 }, { duration: 60, rate: 0.05 }] });
+    expect(r.lossProbability).toBeLessThan(1e-9);
+    expect(r.neglectedMass).toBeLessThan(1e-12);
+  });
+
+  it("each segment's mean queue is within the stated bound too (a short segment's interval is wider than the cycle's)", () => {
+    const c: Case = { servers: 2, waitingPositions: 5, persistence: 0, meanRetryDelay: 1, profile: [{ duration: 0.02, rate: 9 }, { duration: 4, rate: 1.5 }] };
+    const r = periodicRetrialSystem({ ...c, tolerance: 1e-3 });
+    const d = dense(c, 0);
+    r.segments.forEach((g, i) => expect(Math.abs(g.meanQueueLength - d.segments[i].meanQueueLength)).toBeLessThanOrEqual(r.errorBound * Math.max(1, g.meanQueueLength) + 1e-12));
+  });
+
   it("refuses inputs it cannot answer with a message naming the field", () => {
     const bad = (input: Record<string, unknown>, field: string) => {
       try {
@@ -147,6 +164,12 @@ describe("exact retrials under a time-varying load (periodic forward equations, 
     bad({ servers: 4, profile: [{ duration: 1, rate: 3 }, { duration: 1, rate: 5 }], persistence: 1, meanRetryDelay: 1 }, "profile");
     bad({ servers: 4, profile: [{ duration: 1, rate: 3 }], persistence: 0.5, meanRetryDelay: 1, meanPatience: 2 }, "meanPatience");
     bad({ servers: 4, profile: [{ duration: 1, rate: 3 }], persistence: 1.5, meanRetryDelay: 1 }, "persistence");
+    // patience drains the waiting room, not an orbit that never gives up: 3 calls per unit against N/h + Q/patience = 2
+    bad({ servers: 1, waitingPositions: 1, meanPatience: 1, persistence: 1, meanRetryDelay: 0.5, profile: [{ duration: 1, rate: 3 }, { duration: 1, rate: 3 }] }, "profile");
+    // far too much work for the cycle's length (segments of a millionth of a holding time), refused before any of it
+    bad({ servers: 1, persistence: 0.5, meanRetryDelay: 1, profile: [{ duration: 1e-6, rate: 5 }, { duration: 1e-6, rate: 0.1 }] }, "profile");
+    // the stationary model has the same limit
+    expect(() => retrialLossSystem({ servers: 1, traffic: 3, waitingPositions: 1, meanPatience: 1, persistence: 1, meanRetryDelay: 0.5 })).toThrow(/N \+ Q × holding\/patience/);
     bad({ servers: 4, profile: [{ duration: 1, rate: 0 }], persistence: 0.5, meanRetryDelay: 1 }, "profile");
   });
 
