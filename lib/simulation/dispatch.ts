@@ -22,7 +22,8 @@ export interface ReplicationLoop {
 /**
  * The dispatch rule, in order:
  * 1. `markov` when the model is a Markov chain throughout (markov-path.ts: exponential holding;
- *    Poisson, MMPP/on-off or finite-source arrivals; no waiting line, no repeated attempts):
+ *    Poisson, MMPP/on-off, finite-source or overflow arrivals, or renewal arrivals with a phase-type
+ *    law (exponential, Erlang, hyperexponential); no waiting line, no repeated attempts):
  *    expected sojourns give lower-variance time averages and there is no event list;
  * 2. `specialised` (fast-loop.ts) for every other shape it runs: all but time-varying arrivals and
  *    lattice laws (deterministic, empirical) combined with retrials or patience;
