@@ -332,11 +332,7 @@ export class MarkovReplication {
       } else if (u < lambda) call = true;
       else if (u < lambda + departures) busy--;
       else {
-        const jump = this.phaseJump[phase];
-        const v = rng.next();
-        let j = 0;
-        while (v > jump[j]) j++;
-        phase = j;
+        phase = pick(this.phaseJump[phase], rng.next());
       }
       if (call) {
         // A fresh call.

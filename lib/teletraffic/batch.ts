@@ -2,6 +2,7 @@ import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { trafficField } from "./erlang-b";
 import { batchMoments, batchSizeSchema, batchTail, type BatchSizeLaw } from "./laws";
+import { departureRate } from "./departures";
 
 export const MAX_BATCH_SERVERS = 1_000_000;
 /** (N + Q + 1) × largest batch above which the general recursion is not interactive (about 100 ms). */
@@ -108,7 +109,7 @@ export function batchLossSystem(input: BatchLossInput): BatchLossResult {
   }
   /** P(j − i < X <= K − i) without cancelling two nearly equal tails for the geometric law. */
   const between = (a: number, b: number) => (geometric ? tailAt(a) * -Math.expm1((b - a) * Math.log(ratio)) : Math.max(0, tailAt(a) - tailAt(b)));
-  const death = (k: number) => Math.min(k, n) * mu + Math.max(0, k - n) * alpha;
+  const death = (k: number) => departureRate(k, n, mu, alpha);
 
   const p = new Float64Array(capacity + 1);
   p[0] = 1;

@@ -3,6 +3,7 @@ import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError
 import { equivalentRandomUnchecked, overflowMomentsUnchecked } from "./overflow";
 import { erlangBStateDistribution, erlangBUnchecked } from "./erlang-b";
 import { gaussSeidelEnvironmentLossChain, solveEnvironmentLossChain } from "./qbd";
+import { departureRate } from "./departures";
 
 export const MAX_OVERFLOW_STATES = 200_000;
 /** Level reduction costs (N+1)·K³ for K primary states; beyond this Gauss–Seidel is used instead. */
@@ -142,7 +143,7 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
     const phaseRates = new Float64Array(k * k);
     for (const [from, to, rate] of edges) phaseRates[from * k + to] += rate;
     // Level = calls at the final group (0..N+Q); those beyond N wait and abandon at rate α.
-    pi = solveEnvironmentLossChain(capacity, k, phaseRates, up, 1, (j) => Math.min(j, n) + Math.max(0, j - n) * alpha);
+    pi = solveEnvironmentLossChain(capacity, k, phaseRates, up, 1, (j) => departureRate(j, n, 1, alpha));
     solver = "direct level reduction";
   } else {
     // start from the exact primary marginal (product of truncated Poisson) times a Poisson guess for the final group
@@ -159,7 +160,7 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
     }
     const states = k * (capacity + 1);
     const maxSweeps = Math.max(100, Math.floor(MAX_GAUSS_SEIDEL_WORK / states));
-    const death = Float64Array.from({ length: capacity + 1 }, (_, j) => Math.min(j, n) + Math.max(0, j - n) * alpha);
+    const death = Float64Array.from({ length: capacity + 1 }, (_, j) => departureRate(j, n, 1, alpha));
     const solved = gaussSeidelEnvironmentLossChain(capacity, { phases: k, inStart, inFrom, inRate, outRate }, up, death, initial, GAUSS_SEIDEL_TOLERANCE, maxSweeps);
     if (!solved) throw new TeletrafficConvergenceError(`overflowLossSystem: Gauss–Seidel did not converge within ${maxSweeps} sweeps`, maxSweeps);
     pi = solved.pi;

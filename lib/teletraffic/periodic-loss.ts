@@ -5,6 +5,7 @@ import type { MmppQueueResult } from "./mmpp";
 import { periodicRetrialSystem, periodicRetrialWork, type PeriodicRetrialInput, type PeriodicRetrialResult } from "./periodic-retrial";
 import { STEP_MEAN, uniformisationWeights } from "./uniformisation";
 import { periodicInfiniteServerLoad, profileField, refineProfileHasTraffic, timeVaryingHoldingField, timeVaryingServersField } from "./time-varying";
+import { departureRate } from "./departures";
 
 /**
  * Exact blocking of the M(t)/M/N/N loss system under a periodic piecewise-constant arrival rate.
@@ -112,7 +113,7 @@ interface BirthDeath {
   alpha: number;
 }
 
-const deathOf = (m: BirthDeath, k: number) => Math.min(k, m.servers) * m.mu + Math.max(0, k - m.servers) * m.alpha;
+const deathOf = (m: BirthDeath, k: number) => departureRate(k, m.servers, m.mu, m.alpha);
 /** d(K) − d(k), formed without cancellation (the uniformised chain's holding weight below K). */
 const deathGapOf = (m: BirthDeath, k: number) => (m.servers - Math.min(k, m.servers)) * m.mu + (m.capacity - m.servers - Math.max(0, k - m.servers)) * m.alpha;
 

@@ -1,8 +1,9 @@
 import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { STEP_MEAN, uniformisationWeights } from "./uniformisation";
-import { cappedStationaryLaw, levelMass, stationaryOrbitCap, TRUNCATION_BOUND, type MarkovSystemModel, type RetrialRateMeasures } from "./retrial-chain";
+import { cappedStationaryLaw, extrapolatedTail, levelMass, stationaryOrbitCap, TRUNCATION_BOUND, type MarkovSystemModel, type RetrialRateMeasures } from "./retrial-chain";
 import { profileField, refineProfileHasTraffic, timeVaryingHoldingField } from "./time-varying";
+import { departureRate } from "./departures";
 
 /**
  * Exact retrials under a time-varying load: Poisson fresh calls at a periodic piecewise-constant
@@ -138,7 +139,7 @@ interface Chain {
   theta: number;
 }
 
-const deathOf = (c: Chain, k: number) => Math.min(k, c.n) * c.mu + Math.max(0, k - c.n) * c.alpha;
+const deathOf = (c: Chain, k: number) => departureRate(k, c.n, c.mu, c.alpha);
 
 function stationaryModel(v: Parsed, rate: number): MarkovSystemModel {
   return {
@@ -183,7 +184,7 @@ export function periodicRetrialWork(input: PeriodicRetrialInput): number {
 
 function workOf(v: Parsed): number {
   try {
-    const c = chainOf(v, initialCap(v));
+    const c = chainOf(v, initialCap(v).cap);
     return 2 * (c.kMax + 1) * (c.cap + 1) * termsPerCycle(c, v.profile) * cyclesEstimate(v);
   } catch {
     return Infinity;
@@ -208,16 +209,22 @@ const belowExitCapacity = (v: Pick<Parsed, "servers" | "waitingPositions" | "mea
 /** The chain at the constant peak rate is stable (it then dominates the periodic one): an orbit that gives up, or a peak the group clears. */
 const peakStable = (v: Parsed, peak: number) => v.persistence < 1 || belowExitCapacity(v, peak);
 
-/** The first cap: from the dominating chain at the peak rate when it is stable, else twice the mean rate's. */
-function initialCap(v: Parsed): number {
+/**
+ * The first cap and, when the chain at the peak rate is stable (it then dominates the periodic one
+ * at every instant), its orbit tail beyond the cap; else twice the mean rate's cap and no tail yet.
+ */
+function initialCap(v: Parsed): { cap: number; dominatedTail?: number } {
   const peak = Math.max(...v.profile.map((s) => s.rate));
   const width = v.servers + v.waitingPositions + 1;
   const maxStates = MAX_PERIODIC_RETRIAL_STATES;
-  if (v.persistence === 0) return 0; // no orbit: the plain queue
-  if (peakStable(v, peak)) return Math.max(2, stationaryOrbitCap(stationaryModel(v, peak), TRUNCATION_BOUND, maxStates * 4).cap);
+  if (v.persistence === 0) return { cap: 0, dominatedTail: 0 }; // no orbit: the plain queue
+  if (peakStable(v, peak)) {
+    const dominating = stationaryOrbitCap(stationaryModel(v, peak), TRUNCATION_BOUND, maxStates * 4);
+    return { cap: Math.max(2, dominating.cap), dominatedTail: dominating.tail };
+  }
   const cap = 2 * stationaryOrbitCap(stationaryModel(v, cycleOf(v.profile).meanRate), TRUNCATION_BOUND, maxStates * 4).cap;
   if ((cap + 1) * width > maxStates) throw inputError("profile", `the orbit needs more than ${Math.floor(maxStates / width) - 1} levels (${maxStates} states)`);
-  return cap;
+  return { cap };
 }
 
 /** Per-segment uniformisation data: Λ, step count, Poisson weights and P(X > t)/Λ, and the rows of P. */
@@ -457,20 +464,17 @@ function intervals(c: Chain, plans: Plan[], lo: Integrals[], hi: Integrals[]): {
 
 export function periodicRetrialSystem(input: PeriodicRetrialInput): PeriodicRetrialResult {
   const v = parseInput(periodicRetrialInputSchema, input);
-  const rates = v.profile.map((s) => s.rate);
-  const peak = Math.max(...rates);
   const width = v.servers + v.waitingPositions + 1;
-  let cap = initialCap(v);
-  let dominatedTail = peakStable(v, peak) ? stationaryOrbitCap(stationaryModel(v, peak), TRUNCATION_BOUND, MAX_PERIODIC_RETRIAL_STATES * 4).tail : undefined;
+  const first = initialCap(v);
+  let cap = first.cap;
   for (let attempt = 0; ; attempt++) {
     if ((cap + 1) * width > MAX_PERIODIC_RETRIAL_STATES) throw inputError("profile", `the orbit needs more than ${Math.floor(MAX_PERIODIC_RETRIAL_STATES / width) - 1} levels (${MAX_PERIODIC_RETRIAL_STATES} states): the peak keeps too many calls retrying`);
     const solved = solveWithCap(v, cap);
-    if (dominatedTail !== undefined) return finish(v, solved, dominatedTail);
+    if (first.dominatedTail !== undefined) return finish(v, solved, first.dominatedTail);
     // No dominating stable chain: check the periodic law's own tail at the cap, double if needed.
     if (solved.tail <= TRUNCATION_BOUND) return finish(v, solved, solved.tail);
     if (attempt >= 4) throw new TeletrafficConvergenceError(`the orbit tail at the cap (${solved.tail.toExponential(2)}) stays above ${TRUNCATION_BOUND} after 4 doublings`, attempt);
     cap *= 2;
-    dominatedTail = undefined;
   }
 }
 
@@ -537,13 +541,10 @@ function solveWithCap(v: Parsed, cap: number): Solved {
   }
 }
 
-/** Extrapolated mass at and beyond the cap in a level-major law (the orbit's last two levels). */
+/** Extrapolated mass at and beyond the cap in a level-major law: the cap level plus the geometric tail beyond it (retrial-chain.ts). */
 function extrapolatedCapTail(law: Float64Array, c: Chain): number {
-  const width = c.kMax + 1;
-  const top = levelMass(law, c.cap, width);
-  const below = levelMass(law, c.cap - 1, width);
-  const rho = below > 0 ? top / below : 1;
-  return top === 0 ? 0 : rho < 0.99 ? top / (1 - rho) : Infinity;
+  const level = (o: number) => levelMass(law, o, c.kMax + 1);
+  return level(c.cap) + extrapolatedTail(level, c.cap);
 }
 
 function finish(v: Parsed, s: Solved, neglectedMass: number): PeriodicRetrialResult {

@@ -6,6 +6,7 @@ import { lnGamma } from "./numeric";
 import { gthStationary } from "./qbd";
 import { interarrivalLawSchema } from "./renewal";
 import { logIntegralUnimodal, smoothSubstitution } from "./transform";
+import { departureRate } from "./departures";
 
 /**
  * GI/M/N/N+Q with renewal arrivals, exponential holding (rate μ) and optional exponential patience
@@ -153,7 +154,7 @@ export function renewalQueueSystem(input: RenewalQueueInput): RenewalQueueResult
   const kMax = n + v.waitingPositions;
   const mu = 1 / v.meanHolding;
   const alpha = v.meanPatience !== undefined ? 1 / v.meanPatience : 0;
-  const death = (k: number) => Math.min(k, n) * mu + Math.max(0, k - n) * alpha;
+  const death = (k: number) => departureRate(k, n, mu, alpha);
   const big = death(kMax);
   const meanInterarrival = lawMean(v.interarrival);
   const lambda = 1 / meanInterarrival;

@@ -5,6 +5,7 @@ import { gthStationary } from "./qbd";
 import { interarrivalLawSchema } from "./renewal";
 import { mixedPoisson } from "./renewal-queue";
 import { extrapolatedTail, levelMass, retrialRateMeasures, TRUNCATION_BOUND, type RetrialRateMeasures } from "./retrial-chain";
+import { departureRate } from "./departures";
 
 /**
  * Retrials on renewal arrivals (GI/M/N/N+Q with an orbit), by the embedded Markov chain at arrival
@@ -115,7 +116,7 @@ export function renewalRetrialWork(servers: number, waitingPositions: number, la
 function solveCapped(m: Model, cap: number) {
   const width = m.kMax + 1;
   const states = (cap + 1) * width;
-  const death = (k: number) => Math.min(k, m.n) * m.mu + Math.max(0, k - m.n) * m.alpha;
+  const death = (k: number) => departureRate(k, m.n, m.mu, m.alpha);
   // Sparse P: at most three moves per state (departure, retry admitted or lost) plus staying.
   const big = death(m.kMax) + cap * m.theta + 1e-300;
   const down = new Float64Array(states); // (k, o) → (k − 1, o)

@@ -1,4 +1,5 @@
 import { inputError, TeletrafficConvergenceError } from "./errors";
+import { departureRate } from "./departures";
 
 /**
  * Exact Markov model of a group with N servers, Q waiting positions (FIFO, exponential patience of
@@ -146,7 +147,7 @@ function solveCapped(model: MarkovSystemModel, cap: number): Float64Array {
   const p = model.persistence;
   const theta = model.retryRate;
   const fresh = freshRateOf(model);
-  const death = (k: number) => Math.min(k, n) * mu + Math.max(0, k - n) * alpha;
+  const death = (k: number) => departureRate(k, n, mu, alpha);
 
   const r = new Float64Array((cap + 1) * width); // row K of R_o, o = 1..cap
   const c = new Float64Array(width); // r_{o+1} A2(o+1): the dense row added to row K of M_o
