@@ -136,7 +136,7 @@ typedef struct {
   long warmup;
 } model_t;
 
-/* Keep in step with the cases of engine.bench.ts. */
+/* Keep in step with the cases of simulation.bench.ts. */
 static const model_t models[] = {
   {"poisson", 30, ARR_POISSON, HOLD_EXP, 20, 0, 0, 0, 0, {0}, {{0}}, 0, {0}, {0}, 1, 0, 0, 0, 0, 0},
   {"lognormal", 30, ARR_POISSON, HOLD_LOGNORMAL, 20, 0, 0, 0, 0, {0}, {{0}}, 0, {0}, {0}, 1, 1, 0, 0, 0, 0},
