@@ -396,3 +396,24 @@ export const uploads = pgTable(
   },
   (t) => [index("uploads_workspace_idx").on(t.workspaceId, t.createdAt)],
 );
+
+// ---------------------------------------------------------------------------------------------
+// Worker heartbeats: which background workers are alive (db/queries/workers.ts, lib/jobs/worker-heartbeat.ts).
+// ---------------------------------------------------------------------------------------------
+
+/**
+ * One row per running worker process, refreshed every few seconds; a row not refreshed within the liveness
+ * window is a dead or stuck worker. stop() deletes its row; a killed worker's row ages out and is pruned.
+ * Times are the database's clock, so workers on other machines with skewed clocks are judged alike. No index on
+ * last_seen_at: the table holds a handful of rows, and an index would stop the frequent updates being HOT.
+ */
+export const workerHeartbeats = pgTable("worker_heartbeats", {
+  /** host:pid, the name the worker logs under. */
+  name: text("name").primaryKey(),
+  host: text("host").notNull(),
+  pid: integer("pid").notNull(),
+  /** Replication threads of the process. */
+  threads: integer("threads").notNull(),
+  startedAt: at("started_at").notNull().defaultNow(),
+  lastSeenAt: at("last_seen_at").notNull().defaultNow(),
+});

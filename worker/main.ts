@@ -9,6 +9,7 @@ import { createDatabase } from "../db/client";
 import { createBoss } from "../db/queue";
 import { databaseUrl, workerConfig } from "../lib/config";
 import { ChunkStopped, type WorkerContext } from "./context";
+import { startHeartbeat } from "./heartbeat";
 import { closeMeasurementPool } from "./measurement-pool";
 import { handlers, type HandlerEntry } from "./handlers";
 
@@ -28,6 +29,9 @@ export interface RunningWorker {
   stop(graceMs?: number): Promise<void>;
 }
 
+/** Workers started in this process so far: a second one (tests) gets its own name, so each keeps its own heartbeat row. */
+let startedInProcess = 0;
+
 export async function startWorker(databaseUrl: string, options: WorkerOptions = {}): Promise<RunningWorker> {
   const log = options.log ?? ((line: string) => console.log(line));
   const threads = options.threads ?? workerConfig.threads(availableParallelism());
@@ -37,11 +41,13 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
   boss.on("error", (error) => log(`pg-boss: ${error.message}`));
   const runner = createReplicationRunner(threads);
   const chunkWorkers: string[] = [];
+  const instance = ++startedInProcess;
+  const name = `${hostname()}:${process.pid}${instance > 1 ? `#${instance}` : ""}`;
   const context: WorkerContext = {
     db,
     boss,
     runner,
-    name: `${hostname()}:${process.pid}`,
+    name,
     lookahead,
     log,
     running: new Set(),
@@ -77,11 +83,15 @@ export async function startWorker(databaseUrl: string, options: WorkerOptions = 
     }
   };
   for (const queue of allQueueNames) await register(queue, handlers[queue] as HandlerEntry<typeof queue>);
+  // Written once the handlers are registered: from here on a queued run has someone to take it (health, run API).
+  const heartbeat = await startHeartbeat(db, { name, host: hostname(), pid: process.pid, threads }, log);
   log(`worker ${context.name} ready: ${threads} replication thread${threads === 1 ? "" : "s"}; queues: ${allQueueNames.join(", ")}`);
 
   let stopping: Promise<void> | undefined;
   const stop = (graceMs = workerConfig.graceSeconds() * 1000) =>
     (stopping ??= (async () => {
+      // First: a stopping worker takes no new jobs, so it no longer counts as alive for queued runs.
+      await heartbeat.stop();
       for (const queue of allQueueNames) await boss.offWork(queue);
       const deadline = Date.now() + graceMs;
       while (context.running.size > 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));

@@ -68,10 +68,13 @@ export async function advanceRun(ctx: WorkerContext, tx: Transaction, run: WorkR
   return "continue";
 }
 
-/** A run that ended tells its sweep (which notifies once for all its points) or its submitter. */
+/**
+ * A run that ended tells its sweep (which notifies once for all its points) or its submitter. A cancelled
+ * run is told after its partial result is stored; the notice goes out only when someone else cancelled it.
+ */
 export async function sendFinished(send: JobSend, run: WorkRun, event: "succeeded" | "failed" | "cancelled"): Promise<void> {
   if (run.sweepId) await send(queues.sweepAdvance, { sweepId: run.sweepId, runId: run.id });
-  else if (event !== "cancelled") await send(queues.notify, { subject: "run", id: run.id, event });
+  else await send(queues.notify, { subject: "run", id: run.id, event });
 }
 
 /** Fails the run (if still queued or running) with the reason, and tells whoever should know. */

@@ -73,7 +73,11 @@ export async function advanceSweep(tx: Transaction, sweep: WorkSweep, send: JobS
   const base = parseScenario(sweep.scenario);
   const allDone = done.length === runs.length;
   if (sweep.status === "cancelled") {
-    if (allDone && !sweep.result) await storeSweepPartialResult(tx, sweep.id, summaryOf(definition, base, runs, { unresolved: "the search was cancelled" }) as unknown as Record<string, unknown>, done.length);
+    if (allDone && !sweep.result) {
+      await storeSweepPartialResult(tx, sweep.id, summaryOf(definition, base, runs, { unresolved: "the search was cancelled" }) as unknown as Record<string, unknown>, done.length);
+      // Once, with what was kept (the notice goes out only when someone other than the submitter cancelled).
+      await send(queues.notify, { subject: "sweep", id: sweep.id, event: "cancelled" });
+    }
     return;
   }
   if (sweep.status !== "running") return;

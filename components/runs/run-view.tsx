@@ -21,6 +21,7 @@ import { SegmentTable } from "./segment-table";
 import { JobStatusBadge, ProgressBar, ReviewBadge } from "./status";
 import { ReportLinkButton, TargetControl, useTarget } from "./target-control";
 import { VerdictBadge } from "./verdict";
+import { WorkerNotice } from "./worker-notice";
 
 export interface RunViewProps {
   workspace: string;
@@ -101,6 +102,7 @@ function LiveProgress({ workspace, run, canCancel }: { workspace: string; run: R
   return (
     <Card>
       <CardBody className="flex flex-col gap-3" aria-live="polite">
+        <WorkerNotice notice={run.workerNotice} />
         <ProgressBar
           fraction={p.fraction}
           label={run.status === "queued" ? "Waiting for a worker" : "Simulating"}

@@ -33,7 +33,7 @@ export function MailSettings() {
                 }}
               />
               <span>
-                <span className="font-medium text-basin-900">E-mail me when my runs and sweeps finish or fail, and when a reviewer decides on them</span>
+                <span className="font-medium text-basin-900">E-mail me when my runs and sweeps finish or fail, when someone else cancels them, and when a reviewer decides on them</span>
               </span>
             </label>
           )}

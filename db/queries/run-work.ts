@@ -5,7 +5,7 @@ import { and, asc, desc, eq, inArray, isNotNull, isNull, sql } from "drizzle-orm
 import type PgBoss from "pg-boss";
 import type { Database } from "../client";
 import { sendJob, jobsIn } from "../queue";
-import { reviewComments, runChunks, runs, scenarios, userPreferences, users, workspaces } from "../schema";
+import { auditEvents, reviewComments, runChunks, runs, scenarios, userPreferences, users, workspaces } from "../schema";
 import { recordAudit } from "./audit";
 import type { Payload, QueueName } from "@/lib/jobs/contracts";
 
@@ -212,6 +212,8 @@ export async function findRunForNotice(db: Executor, runId: string) {
       error: runs.error,
       result: runs.result,
       partial: runs.partial,
+      replicationsDone: runs.replicationsDone,
+      replicationsPlanned: runs.replicationsPlanned,
       submittedBy: runs.submittedBy,
       scenarioName: scenarios.name,
     })
@@ -232,4 +234,20 @@ export async function findLatestDecider(db: Executor, subjectType: "run" | "swee
     .orderBy(desc(reviewComments.createdAt))
     .limit(1);
   return row ? (row.name ?? row.email ?? null) : null;
+}
+
+/**
+ * Who cancelled a run or sweep, and when: its latest `run.cancelled` / `sweep.cancelled` audit event (the
+ * cancel writes it in the same transaction). `userId` is null when the account has since been removed;
+ * null when no cancel was recorded.
+ */
+export async function findCancellation(db: Executor, subjectType: "run" | "sweep", subjectId: string): Promise<{ userId: string | null; name: string | null; at: Date } | null> {
+  const [row] = await db
+    .select({ userId: auditEvents.actorUserId, name: users.name, email: users.email, at: auditEvents.createdAt })
+    .from(auditEvents)
+    .leftJoin(users, eq(users.id, auditEvents.actorUserId))
+    .where(and(eq(auditEvents.subjectType, subjectType), eq(auditEvents.subjectId, subjectId), eq(auditEvents.action, `${subjectType}.cancelled`)))
+    .orderBy(desc(auditEvents.createdAt), desc(auditEvents.id))
+    .limit(1);
+  return row ? { userId: row.userId, name: row.name ?? row.email ?? null, at: row.at } : null;
 }

@@ -1,5 +1,5 @@
 // The worker's reads and writes on sweeps and their point runs, with the sweep row locked.
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, asc, count, eq, inArray } from "drizzle-orm";
 import type PgBoss from "pg-boss";
 import type { Database } from "../client";
 import { runs, sweeps, workspaceQuotas, workspaces } from "../schema";
@@ -140,10 +140,17 @@ export async function findSweepForNotice(db: Executor, sweepId: string) {
       status: sweeps.status,
       error: sweeps.error,
       result: sweeps.result,
+      pointsPlanned: sweeps.pointsPlanned,
       submittedBy: sweeps.submittedBy,
     })
     .from(sweeps)
     .innerJoin(workspaces, eq(workspaces.id, sweeps.workspaceId))
     .where(eq(sweeps.id, sweepId));
   return row ?? null;
+}
+
+/** Point runs of a sweep that finished in full (succeeded), and how many point runs it has. */
+export async function countFinishedPoints(db: Executor, sweepId: string): Promise<{ finished: number; total: number }> {
+  const rows = await db.select({ status: runs.status, n: count() }).from(runs).where(eq(runs.sweepId, sweepId)).groupBy(runs.status);
+  return { finished: rows.find((r) => r.status === "succeeded")?.n ?? 0, total: rows.reduce((sum, r) => sum + r.n, 0) };
 }

@@ -154,11 +154,13 @@ export async function findSweep(db: Executor, workspaceId: string, sweepId: stri
 }
 export type SweepRecord = NonNullable<Awaited<ReturnType<typeof findSweep>>>;
 
-export type SweepCancelOutcome = { kind: "cancelled"; id: string; runIds: string[] } | { kind: "finished"; status: string } | { kind: "missing" };
+/** `started`: the sweep had point runs (its start job had run), so the worker settles it and sends the cancel notice. */
+export type SweepCancelOutcome = { kind: "cancelled"; id: string; runIds: string[]; started: boolean } | { kind: "finished"; status: string } | { kind: "missing" };
 
 /**
  * queued|running -> cancelled, with its active point runs, and one audit event, in the caller's transaction
- * (which also queues a finalise job per cancelled point run so each keeps its partial result).
+ * (which also queues a finalise job per cancelled point run so each keeps its partial result). The start job
+ * inserts point runs under the sweep's row lock, which this update holds, so `started` is exact.
  */
 export async function markSweepCancelled(tx: Transaction, params: { workspaceId: string; sweepId: string; userId: string | null }): Promise<SweepCancelOutcome> {
   const [row] = await tx
@@ -176,6 +178,7 @@ export async function markSweepCancelled(tx: Transaction, params: { workspaceId:
     .where(and(eq(runs.sweepId, row.id), inArray(runs.status, [...activeJobStatuses])))
     .returning({ id: runs.id });
   const runIds = cancelled.map((r) => r.id);
+  const [points] = await tx.select({ n: count() }).from(runs).where(eq(runs.sweepId, row.id));
   await recordAudit(tx, { workspaceId: params.workspaceId, actorUserId: params.userId, action: "sweep.cancelled", subjectType: "sweep", subjectId: row.id, detail: { pointRunsCancelled: runIds.length } });
-  return { kind: "cancelled", id: row.id, runIds };
+  return { kind: "cancelled", id: row.id, runIds, started: (points?.n ?? 0) > 0 };
 }

@@ -69,6 +69,11 @@ export interface RunResponse extends RunListItem {
   result?: SimulationResult;
   /** The analytic references, stored when the run started (also inside `result`). */
   references?: Reference[];
+  /**
+   * GET runs/{id} only: while the run is queued or running and no worker has reported within the liveness
+   * window, why it is not moving; null otherwise.
+   */
+  workerNotice?: string | null;
 }
 
 /** GET runs */

@@ -3,10 +3,13 @@ import "server-only";
 import type { Database } from "@/db/client";
 import { findRun } from "@/db/queries/runs";
 import { findSweep } from "@/db/queries/sweeps";
+import { workerLiveness } from "@/db/queries/workers";
 import { ApiError } from "@/lib/api/respond";
 import { AccessError } from "@/lib/auth/access";
-import type { RunResponse, SweepResponse } from "./api-types";
+import { activeJobStatuses } from "@/lib/schemas/job-status";
+import type { JobStatus, RunResponse, SweepResponse } from "./api-types";
 import { sweepResponse, wire } from "./present";
+import { noLiveWorkerMessage } from "./worker-heartbeat";
 
 export async function runOr404(db: Database, workspaceId: string, runId: string): Promise<RunResponse> {
   const run = await findRun(db, workspaceId, runId);
@@ -18,6 +21,16 @@ export async function sweepOr404(db: Database, workspaceId: string, sweepId: str
   const sweep = await findSweep(db, workspaceId, sweepId);
   if (!sweep) throw new AccessError(404, "not-found", "No such sweep in this workspace.");
   return sweepResponse(sweep);
+}
+
+/**
+ * Why a queued or running job is not moving: the no-live-worker message when no worker has reported within the
+ * liveness window (workerLiveness, the rule health uses too); null when one has, or the job is finished.
+ */
+export async function workerNoticeFor(db: Database, status: JobStatus): Promise<string | null> {
+  if (!(activeJobStatuses as readonly JobStatus[]).includes(status)) return null;
+  const { live, windowSeconds } = await workerLiveness(db);
+  return live > 0 ? null : noLiveWorkerMessage(windowSeconds);
 }
 
 /** Exports need something to export: a 409 until the run has a (possibly partial) result. */

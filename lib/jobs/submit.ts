@@ -140,7 +140,11 @@ export async function cancelRun(db: Database, boss: PgBoss, submitter: Submitter
   });
 }
 
-/** POST …/sweeps/{id}/cancel: the sweep and its active point runs, each point run then finalised as partial. */
+/**
+ * POST …/sweeps/{id}/cancel: the sweep and its active point runs, each point run then finalised as partial (the
+ * worker sends the cancel notice once the last one is). A sweep cancelled before it started has no point runs
+ * to wait for: its notice is queued here.
+ */
 export async function cancelSweep(db: Database, boss: PgBoss, submitter: Submitter, sweepId: string): Promise<JobAccepted> {
   return db.transaction(async (tx) => {
     const outcome = await markSweepCancelled(tx, { workspaceId: submitter.workspaceId, sweepId, userId: submitter.userId });
@@ -148,6 +152,7 @@ export async function cancelSweep(db: Database, boss: PgBoss, submitter: Submitt
     if (outcome.kind === "finished") throw alreadyFinished("sweep", outcome.status);
     const send = sendOr503(tx, boss);
     for (const runId of outcome.runIds) await send(queues.runFinalise, { runId });
+    if (!outcome.started) await send(queues.notify, { subject: "sweep", id: sweepId, event: "cancelled" });
     return { id: sweepId, status: "cancelled" };
   });
 }

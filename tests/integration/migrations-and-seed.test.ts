@@ -28,7 +28,7 @@ describe("migrations", () => {
   it("apply on an empty database", async () => {
     await runMigrations(scratch.url);
     const tables = (await query<{ table_name: string }>("select table_name from information_schema.tables where table_schema = 'public'")).map((r) => r.table_name);
-    for (const t of ["users", "accounts", "sessions", "verification_tokens", "workspaces", "memberships", "invitations", "audit_events", "sign_in_attempts", "captured_mail"]) {
+    for (const t of ["users", "accounts", "sessions", "verification_tokens", "workspaces", "memberships", "invitations", "audit_events", "sign_in_attempts", "captured_mail", "worker_heartbeats"]) {
       expect(tables).toContain(t);
     }
     const applied = await query("select * from drizzle.__drizzle_migrations");

@@ -2,7 +2,6 @@
 // cancel, a bad scenario, a retried chunk, progress, and the finish notice by e-mail.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
-import { createServer } from "node:net";
 import type PgBoss from "pg-boss";
 import type { Database } from "@/db/client";
 import { createBoss } from "@/db/queue";
@@ -11,7 +10,7 @@ import { startFakeSmtpServer } from "@/lib/mail/fake-smtp-server";
 import { parseScenario, runScenario, type ScenarioInput } from "@/lib/simulation/node";
 import { startWorker, type RunningWorker } from "@/worker/main";
 import { migratedScratchDatabase } from "./support/database";
-import { canonicalJson, cancelTestRun, createWorkspace, readChunks, readRun, submitTestRun, waitFor, waitForRunStatus } from "./support/worker";
+import { canonicalJson, cancelTestRun, createWorkspace, freePort, readChunks, readRun, submitTestRun, waitFor, waitForRunStatus } from "./support/worker";
 
 let scratch: Awaited<ReturnType<typeof migratedScratchDatabase>>;
 let db: Database;
@@ -20,15 +19,6 @@ let worker: RunningWorker;
 let smtp: { close(): Promise<void> };
 let owner: Awaited<ReturnType<typeof createWorkspace>>;
 const appUrl = "http://localhost:3999";
-
-const freePort = () =>
-  new Promise<number>((resolve) => {
-    const server = createServer();
-    server.listen(0, "127.0.0.1", () => {
-      const { port } = server.address() as { port: number };
-      server.close(() => resolve(port));
-    });
-  });
 
 /** Small: 12 replications of 20 000 calls in 4 chunks of 3. */
 const trunk: ScenarioInput = {

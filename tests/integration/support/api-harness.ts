@@ -105,6 +105,8 @@ export const smallScenario = (seed = 11) => ({
 
 export interface Harness {
   db: Database;
+  /** The scratch database's address (for an in-process worker on it). */
+  url: string;
   boss: PgBoss;
   team: Team;
   /** Takes every waiting job of a queue (so later checks count from zero) and returns their payloads. */
@@ -122,6 +124,7 @@ export async function openHarness(slug: string): Promise<Harness> {
   state.boss = boss;
   return {
     db: scratch.db,
+    url: scratch.url,
     boss,
     team: await createTeam(scratch.db, slug),
     drain: async (queue) => {

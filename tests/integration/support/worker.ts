@@ -1,5 +1,6 @@
 // Helpers for the worker and sweep integration tests: a workspace, submissions, waiting on rows.
 import { spawn, type ChildProcess } from "node:child_process";
+import { createServer } from "node:net";
 import path from "node:path";
 import { eq } from "drizzle-orm";
 import type PgBoss from "pg-boss";
@@ -10,6 +11,16 @@ import { queues } from "@/lib/jobs/contracts";
 import { parseScenario, planRun, type ScenarioInput } from "@/lib/simulation/node";
 
 export const projectRoot = path.resolve(__dirname, "../../..");
+
+/** A free loopback port (for the fake SMTP receiver). */
+export const freePort = () =>
+  new Promise<number>((resolve) => {
+    const server = createServer();
+    server.listen(0, "127.0.0.1", () => {
+      const { port } = server.address() as { port: number };
+      server.close(() => resolve(port));
+    });
+  });
 
 export async function createWorkspace(db: Database, slug: string) {
   const [ws] = await db.insert(workspaces).values({ slug, name: `Test ${slug}` }).returning();

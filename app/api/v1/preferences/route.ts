@@ -5,7 +5,7 @@ import { apiRoute, readJsonBody } from "@/lib/api/respond";
 import type { Preferences } from "@/lib/jobs/api-types";
 import { preferencesSchema } from "@/lib/schemas/preferences";
 
-/** The signed-in person's own settings (e-mail notices when their runs and sweeps finish or fail). */
+/** The signed-in person's own settings (e-mail notices when their runs and sweeps finish, fail or are cancelled by someone else). */
 export const GET = apiRoute(async () => {
   const user = await requireUser();
   const body: Preferences = await findPreferences(getDatabase(), user.id);
