@@ -8,6 +8,7 @@
 // answer at the schemas' largest sizes within 0.5 s, so they have no limit here.
 import type { z } from "zod";
 import { INTERACTIVE_PERIODIC_QUEUE_WORK, INTERACTIVE_PERIODIC_WORK, INTERACTIVE_TIME_VARYING_WORK, periodicLossInputSchema, periodicLossWork, periodicQueueInputSchema, periodicQueueWork, timeVaryingInputSchema, timeVaryingWork } from "../teletraffic";
+import { TIME_VARYING_WORK_MEASURE } from "../teletraffic/time-varying";
 import type { AnalyticOperationName } from "../teletraffic/operations";
 
 interface Limit {
@@ -56,7 +57,7 @@ export const interactiveLimits: Partial<Record<AnalyticOperationName, Limit>> = 
     max: BUDGET_MULTIPLE * INTERACTIVE_PERIODIC_QUEUE_WORK,
   },
   "time-varying-loss": {
-    measure: "the estimated work segments × quadrature nodes × (N + 1)",
+    measure: TIME_VARYING_WORK_MEASURE,
     size: workOf(timeVaryingInputSchema, (v) => timeVaryingWork(v.servers, v.profile, v.meanHolding)),
     max: BUDGET_MULTIPLE * INTERACTIVE_TIME_VARYING_WORK,
   },

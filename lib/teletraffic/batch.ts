@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { trafficField } from "./erlang-b";
 import { batchMoments, batchSizeSchema, batchTail, type BatchSizeLaw } from "./laws";
@@ -31,7 +32,7 @@ export const batchLossInputSchema = z
       if (work > MAX_BATCH_WORK) ctx.addIssue({ code: "custom", path: ["servers"], message: `(N + Q + 1) × largest batch = ${work} exceeds ${MAX_BATCH_WORK}` });
     }
   })
-  .describe("batch Poisson arrivals with any batch-size law, exponential holding, optional waiting positions and patience; calls that find no room are lost");
+  .describe(`batch Poisson arrivals with any batch-size law, exponential holding, optional waiting positions and patience; calls that find no room are lost. ${WAITING_MEASURES}`);
 export type BatchLossInput = z.input<typeof batchLossInputSchema>;
 
 export interface BatchLossResult {

@@ -228,15 +228,18 @@ export const engsetServersInputSchema = z
     target: z.number().gt(0).lt(1).describe("target congestion, strictly between 0 and 1"),
     measure: z.enum(["time", "call"]).default("call").describe('"time": time congestion E; "call": call congestion B (E with S − 1 sources)'),
   })
-  .describe("Engset sizing: smallest N meeting a target time or call congestion");
+  .describe("Engset sizing: smallest N <= S meeting a target time or call congestion (N = S refuses no call); measureOneLess = the measure with one server fewer");
 export type EngsetServersInput = z.input<typeof engsetServersInputSchema>;
 
 /**
  * Smallest N with E_S(N) <= target (time) or E_{S−1}(N) <= target (call), walking the Engset
  * recursion E(n) = (S − n + 1) β E(n − 1) / (n + (S − n + 1) β E(n − 1)), E(0) = 1 (Iversen,
  * handbook, Engset chapter) in log form, so targets far below the float range are met exactly.
+ * Never more than S servers: with N = S every source has its own server and no call is refused
+ * (E_{S−1}(S) = 0); the time congestion E_S(S) = (β/(1 + β))^S there is the share of time all
+ * sources are busy, which refuses nobody, so a time target it misses is not a reason for N = S + 1.
  */
-export function engsetServers(input: EngsetServersInput): EngsetResult & { target: number; measure: string; congestionOneLess: number } {
+export function engsetServers(input: EngsetServersInput): EngsetResult & { target: number; measure: string; measureOneLess: number } {
   const { sources, idleRate, meanHolding, target, measure } = parseInput(engsetServersInputSchema, input);
   const beta = idleRate * meanHolding;
   const s = measure === "time" ? sources : sources - 1;
@@ -244,13 +247,19 @@ export function engsetServers(input: EngsetServersInput): EngsetResult & { targe
   let logE = 0;
   let previous = 1;
   let n = 0;
-  // E(S' + 1) = 0 (a group larger than the sources is never all busy), so the walk ends by n = S' + 1
-  while (logE > logTarget) {
+  // E(S' + 1) = 0 (a group larger than the sources is never all busy), so the walk ends by n = S' + 1 <= S + 1; it stops at S
+  while (logE > logTarget && n < sources) {
     previous = Math.exp(logE);
     n += 1;
     const x = Math.log((s - n + 1) * beta) + logE; // ln((S' − n + 1) β E(n − 1)); −Infinity at n = S' + 1
     logE = x === -Infinity ? -Infinity : x - Math.log(n + Math.exp(x));
   }
   const result = engset({ sources, servers: n, idleRate, meanHolding });
-  return { ...result, method: `smallest N by walking the Engset recursion; ${result.method}`, target, measure, congestionOneLess: previous };
+  const oneEach =
+    n === sources
+      ? `; N = S: every source has its own server, so no call is ever refused (call congestion 0${
+          logE > logTarget ? `; the time congestion ${Number(Math.exp(logE).toPrecision(6))} above the target is the share of time all sources are busy, which refuses nobody` : ""
+        })`
+      : "";
+  return { ...result, method: `smallest N by walking the Engset recursion, at most S${oneEach}; ${result.method}`, target, measure, measureOneLess: previous };
 }

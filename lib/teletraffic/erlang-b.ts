@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
-import { erlangBComplementUnchecked, erlangBUnchecked, logErlangBUnchecked, stepLogB, TINY } from "./erlang-b-kernel";
+import { erlangBCarriedPerServerUnchecked, erlangBComplementUnchecked, erlangBUnchecked, logErlangBUnchecked, stepLogB, TINY } from "./erlang-b-kernel";
 import { solveBracketed } from "./solve";
 
 /** Largest group (integer or real) the O(N) recursion is allowed to walk. */
@@ -54,7 +54,7 @@ export const minServersInputSchema = z
   .describe("smallest group (integer, or real) with B(N, A) <= target");
 export type MinServersInput = z.infer<typeof minServersInputSchema>;
 
-export { erlangBComplementUnchecked, erlangBUnchecked, logErlangBUnchecked } from "./erlang-b-kernel";
+export { erlangBCarriedPerServerUnchecked, erlangBComplementUnchecked, erlangBUnchecked, logErlangBUnchecked } from "./erlang-b-kernel";
 
 // ---------------------------------------------------------------------------------------------
 // Public API
@@ -101,7 +101,8 @@ export interface ErlangBSummary {
 export function erlangBSummary(input: ErlangBInput): ErlangBSummary {
   const { servers, traffic } = parseInput(erlangBInputSchema, input);
   const blocking = erlangBUnchecked(servers, traffic);
-  // Why the complement: A (1 − B) cancelled for B near 1; N = 0.001, A = 1e7 carried 0.00100000008 > N
+  // Why the complement: A (1 − B) cancelled for B near 1; N = 0.001, A = 1e7 carried 0.00100000008 > N,
+  // and N = 1e-12, A = 1 carried 5.9608e-13 for 5.9635e-13 (B itself came out 1 + 2e-16 at N = 1e-16)
   const carriedTraffic = traffic * erlangBComplementUnchecked(servers, traffic);
   return assertFiniteResult(
     {
@@ -113,7 +114,9 @@ export function erlangBSummary(input: ErlangBInput): ErlangBSummary {
       blocking,
       carriedTraffic,
       lostTraffic: traffic * blocking,
-      occupancyPerServer: servers > 0 ? carriedTraffic / servers : 0,
+      // A (1 − B)/N, not carried / N: at N = 1e-300 the quotient of two tiny numbers; tends to
+      // A e^A E_1(A) as N → 0+ (0.596 at A = 1), and is 0 at N = 0 (no servers)
+      occupancyPerServer: erlangBCarriedPerServerUnchecked(servers, traffic),
     },
     "erlangBSummary",
   );
@@ -142,8 +145,8 @@ export function maxTrafficForBlocking(input: MaxTrafficInput): MaxTrafficResult 
       target,
       traffic: traffic.root,
       blocking,
-      carriedTraffic: traffic.root * (1 - blocking),
-      occupancyPerServer: (traffic.root * (1 - blocking)) / servers,
+      carriedTraffic: traffic.root * erlangBComplementUnchecked(servers, traffic.root),
+      occupancyPerServer: erlangBCarriedPerServerUnchecked(servers, traffic.root),
       iterations: traffic.iterations,
     },
     "maxTrafficForBlocking",

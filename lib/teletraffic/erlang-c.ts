@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { erlangBUnchecked, logErlangBUnchecked, MAX_SERVERS, trafficField } from "./erlang-b";
+import { FULL_CONGESTION, WAITING_MEASURES } from "./measure-words";
 import { logAddExp, NeumaierSum } from "./numeric";
 
 const integerServers = z.number().int().min(1).max(MAX_SERVERS).describe(`integer number of servers N (1..${MAX_SERVERS})`);
@@ -13,14 +14,15 @@ export const erlangCInputSchema = z
     meanHolding: meanHoldingField,
     waitLimit: z.number().min(0).max(1e15).optional().describe("waiting-time limit t (same unit as meanHolding) for P(W <= t)"),
   })
-  .describe("Erlang C delay system M/M/N: needs A < N for a stationary queue");
+  .describe("Erlang C delay system M/M/N: needs A < N for a stationary queue; waitingProbability = C(N, A), the share of calls that wait (every call is admitted)");
 export type ErlangCInput = z.input<typeof erlangCInputSchema>;
 
 export interface ErlangCResult {
   method: string;
   servers: number;
   traffic: number;
-  probabilityOfWaiting: number;
+  /** Erlang C: share of calls that wait (no call is refused, so admitted calls are all calls) */
+  waitingProbability: number;
   meanWait: number;
   meanWaitOfDelayed: number;
   meanQueueLength: number;
@@ -39,7 +41,7 @@ export function erlangC(input: ErlangCInput): ErlangCResult {
     method: "Erlang C (M/M/N, FIFO), via Erlang B",
     servers: n,
     traffic: a,
-    probabilityOfWaiting: c,
+    waitingProbability: c,
     meanWait: (c * h) / (n - a),
     meanWaitOfDelayed: h / (n - a),
     meanQueueLength: (c * a) / (n - a),
@@ -58,20 +60,23 @@ export const finiteQueueInputSchema = z
   .object({
     servers: integerServers,
     traffic: trafficField,
-    queuePositions: z.number().int().min(0).max(MAX_QUEUE_POSITIONS).describe(`waiting positions Q (0..${MAX_QUEUE_POSITIONS}); Q = 0 is Erlang B`),
+    waitingPositions: z.number().int().min(0).max(MAX_QUEUE_POSITIONS).describe(`waiting positions Q (FIFO, 0..${MAX_QUEUE_POSITIONS}); Q = 0 is Erlang B`),
     meanHolding: meanHoldingField,
   })
-  .describe("M/M/N/N+Q: N servers, Q waiting positions, calls arriving to a full system are lost");
+  .describe(`M/M/N/N+Q: N servers, Q waiting positions, calls arriving to a full system are lost. ${WAITING_MEASURES}; ${FULL_CONGESTION}`);
 export type FiniteQueueInput = z.input<typeof finiteQueueInputSchema>;
 
 export interface FiniteQueueResult {
   method: string;
   servers: number;
   traffic: number;
-  queuePositions: number;
+  waitingPositions: number;
+  /** share of time all N servers are busy (as the simulation and every other operation report it) */
   timeCongestion: number;
-  probabilityOfWaiting: number;
-  probabilityAllServersBusy: number;
+  /** share of time servers and waiting positions are all taken = share of calls refused (Poisson arrivals see time averages) */
+  fullCongestion: number;
+  /** share of admitted calls (not refused) that wait */
+  waitingProbability: number;
   meanQueueLength: number;
   meanWait: number;
   meanWaitOfDelayed: number;
@@ -89,9 +94,9 @@ export interface FiniteQueueResult {
  * traffic, formed as differences from it, came out 0.6 % too large (carried 1.0058 on one server).
  */
 export function finiteQueue(input: FiniteQueueInput): FiniteQueueResult {
-  const { servers: n, traffic: a, queuePositions: q, meanHolding: h } = parseInput(finiteQueueInputSchema, input);
+  const { servers: n, traffic: a, waitingPositions: q, meanHolding: h } = parseInput(finiteQueueInputSchema, input);
   if (a === 0) {
-    return { method: "M/M/N/N+Q", servers: n, traffic: a, queuePositions: q, timeCongestion: 0, probabilityOfWaiting: 0, probabilityAllServersBusy: 0, meanQueueLength: 0, meanWait: 0, meanWaitOfDelayed: 0, carriedTraffic: 0, lostTraffic: 0 };
+    return { method: "M/M/N/N+Q", servers: n, traffic: a, waitingPositions: q, timeCongestion: 0, fullCongestion: 0, waitingProbability: 0, meanQueueLength: 0, meanWait: 0, meanWaitOfDelayed: 0, carriedTraffic: 0, lostTraffic: 0 };
   }
   // log1p: A − N is exact near ρ = 1, so ln ρ keeps its relative accuracy and Q ln ρ stays accurate
   const logRho = Math.log1p((a - n) / n);
@@ -114,9 +119,12 @@ export function finiteQueue(input: FiniteQueueInput): FiniteQueueResult {
   const logTotal = logAddExp(logBelow, logQueue);
   const scale = Math.exp(-logTotal);
   const pFull = q === 0 ? Math.exp(logB) : top * scale;
-  const probabilityOfWaiting = wait.value() * scale;
   const pServersBusy = q === 0 ? pFull : Math.exp(logQueue - logTotal);
-  const pNotFull = Math.exp(logAddExp(logBelow, Math.log(wait.value())) - logTotal); // 1 − pFull without cancellation
+  const logWait = Math.log(wait.value()); // −Infinity for Q = 0
+  const logNotFull = logAddExp(logBelow, logWait);
+  const pNotFull = Math.exp(logNotFull - logTotal); // 1 − pFull without cancellation
+  // admitted calls that wait: P(N <= k < N + Q) / P(k < N + Q), PASTA
+  const waitingProbability = Math.exp(logWait - logNotFull);
   const lq = length.value() * scale;
   const admitted = a * pNotFull;
   const meanWait = (lq / admitted) * h;
@@ -125,13 +133,13 @@ export function finiteQueue(input: FiniteQueueInput): FiniteQueueResult {
       method: q === 0 ? "M/M/N/N+Q with Q = 0 (Erlang B)" : "M/M/N/N+Q (Erlang loss-delay), exact",
       servers: n,
       traffic: a,
-      queuePositions: q,
-      timeCongestion: pFull,
-      probabilityOfWaiting,
-      probabilityAllServersBusy: pServersBusy,
+      waitingPositions: q,
+      timeCongestion: pServersBusy,
+      fullCongestion: pFull,
+      waitingProbability,
       meanQueueLength: lq,
       meanWait,
-      meanWaitOfDelayed: probabilityOfWaiting > 0 ? (meanWait * pNotFull) / probabilityOfWaiting : 0,
+      meanWaitOfDelayed: waitingProbability > 0 ? meanWait / waitingProbability : 0,
       carriedTraffic: admitted,
       lostTraffic: a * pFull,
     },
@@ -154,7 +162,7 @@ export const erlangCServersInputSchema = z
     if (v.measure !== "mean-wait" && !(v.target < 1)) ctx.addIssue({ code: "custom", path: ["target"], message: "must be below 1 for a probability" });
     if (v.measure === "wait-beyond-limit" && v.waitLimit === undefined) ctx.addIssue({ code: "custom", path: ["waitLimit"], message: "required with wait-beyond-limit" });
   })
-  .describe("Erlang C sizing: smallest N meeting a target probability of waiting, mean wait, or probability of waiting longer than t");
+  .describe("Erlang C sizing: smallest N meeting a target probability of waiting, mean wait, or probability of waiting longer than t; measureOneLess = the measure with one server fewer");
 export type ErlangCServersInput = z.input<typeof erlangCServersInputSchema>;
 
 /**
@@ -162,10 +170,11 @@ export type ErlangCServersInput = z.input<typeof erlangCServersInputSchema>;
  * (Erlang 1917; monotonicity e.g. Iversen, handbook, delay chapter), so the Erlang B recursion is
  * walked up once and C = N B / (N − A (1 − B)) evaluated at each N > A: O(N) in all.
  */
-export function erlangCServers(input: ErlangCServersInput): ErlangCResult & { target: number; measure: string; valueOneLess: number } {
+export function erlangCServers(input: ErlangCServersInput): ErlangCResult & { target: number; measure: string; measureOneLess?: number } {
   const { traffic: a, target, measure, waitLimit, meanHolding: h } = parseInput(erlangCServersInputSchema, input);
   let b = 1;
-  let previous = Infinity;
+  // With N − 1 <= A the queue is unstable: every call waits (C = 1, P(W > t) = 1), the mean wait is unbounded (left out)
+  let previous: number | undefined = measure === "mean-wait" ? undefined : 1;
   for (let n = 1; n <= MAX_SERVERS; n++) {
     const ab = a * b;
     b = ab / (n + ab);
@@ -174,7 +183,13 @@ export function erlangCServers(input: ErlangCServersInput): ErlangCResult & { ta
     const value = measure === "waiting-probability" ? c : measure === "mean-wait" ? (c * h) / (n - a) : c * Math.exp((-(n - a) * waitLimit!) / h);
     if (value <= target) {
       const result = erlangC({ servers: n, traffic: a, meanHolding: h, waitLimit });
-      return { ...result, method: `smallest N by walking the Erlang B recursion; ${result.method}`, target, measure, valueOneLess: previous };
+      return {
+        ...result,
+        method: `smallest N by walking the Erlang B recursion${previous === undefined ? "; with one server fewer the queue is unstable (unbounded mean wait)" : ""}; ${result.method}`,
+        target,
+        measure,
+        ...(previous !== undefined ? { measureOneLess: previous } : {}),
+      };
     }
     previous = value;
   }

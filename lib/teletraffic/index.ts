@@ -11,7 +11,7 @@
  *   minServersForBlocking({ traffic, target }): MinServersResult           // .servers (integer), .realServers
  *   realServersForBlocking({ traffic, target }): RealServersResult         // .realServers
  *   erlangC({ servers, traffic, meanHolding?, waitLimit? }): ErlangCResult
- *   finiteQueue({ servers, traffic, queuePositions, meanHolding? }): FiniteQueueResult
+ *   finiteQueue({ servers, traffic, waitingPositions, meanHolding? }): FiniteQueueResult    // .timeCongestion (all servers busy) .fullCongestion .waitingProbability (admitted calls)
  *   engset({ sources, servers, idleRate, meanHolding? }): EngsetResult
  *   engsetIdleRateForOfferedTraffic({ sources, servers, intendedPerSource | attemptPerSource, meanHolding?, tolerance? }): EngsetIdleRateResult
  *   overflowMoments({ traffic, servers }): OverflowMoments                 // .mean .variance .peakedness

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
+import { FULL_CONGESTION, WAITING_MEASURES } from "./measure-words";
 import { extendedErlangB } from "./retrials";
 import {
   INTERACTIVE_MARKOV_STATES,
@@ -58,7 +59,7 @@ export const retrialLossInputSchema = z
     checkPatience(v, ctx);
     if (v.traffic !== undefined || (v.sources !== undefined && v.idleRate !== undefined)) checkSize(modelOf(v), ctx);
   })
-  .describe("exact retrial model: fresh calls, N servers (+ Q waiting positions), an orbit of refused calls retrying with persistence p after exponential delays");
+  .describe(`exact retrial model: fresh calls, N servers (+ Q waiting positions), an orbit of refused calls retrying with persistence p after exponential delays. ${WAITING_MEASURES}; ${FULL_CONGESTION}`);
 export type RetrialLossInput = z.input<typeof retrialLossInputSchema>;
 
 type MarkovFields = {
@@ -89,7 +90,7 @@ export interface MarkovSystemResult extends MarkovSystemMeasures {
   method: string;
   servers: number;
   waitingPositions: number;
-  /** fresh offered traffic in erlangs (finite sources: attempts of idle sources × mean holding) */
+  /** fresh offered traffic in erlangs: the input as given for Poisson calls (finite sources: attempts of idle sources × mean holding) */
   offeredTraffic: number;
   /** true when the evaluation exceeds the interactive size (callers offer a background job) */
   large: boolean;
@@ -105,13 +106,19 @@ function evaluate(v: MarkovFields, what: string): MarkovSystemResult {
   const model = modelOf(v);
   const r = solveMarkovSystem(model);
   const truncation = r.neglectedMass > 0 ? `; orbit truncated at ${r.orbitCap} calls, estimated neglected mass ${r.neglectedMass.toExponential(1)} (bound ${TRUNCATION_BOUND})` : "";
+  const unfillable =
+    v.sources !== undefined && v.sources < v.servers + v.waitingPositions
+      ? `; the ${v.sources} sources cannot fill the ${v.servers + v.waitingPositions} places, so no call is refused (fullCongestion 0; allSourcesBusy: no source idle)`
+      : "";
   return {
-    method: `${what}, exact chain solved by rank-one level reduction (${r.states} states${truncation})`,
+    method: `${what}, exact chain solved by rank-one level reduction (${r.states} states${truncation})${unfillable}`,
     servers: v.servers,
     waitingPositions: v.waitingPositions,
-    offeredTraffic: r.freshRate * v.meanHolding,
     large: r.states > INTERACTIVE_MARKOV_STATES,
     ...r,
+    // Poisson: the traffic as given (Σ rate × π carries the rounding of the solve, 9.9 came back as 9.89999999999959)
+    offeredTraffic: v.traffic !== undefined ? v.traffic : r.freshRate * v.meanHolding,
+    freshRate: v.traffic !== undefined ? v.traffic / v.meanHolding : r.freshRate,
   };
 }
 
@@ -143,7 +150,7 @@ export const patienceQueueInputSchema = z
     meanPatience: patienceField,
     meanHolding: holdingField,
   })
-  .describe("M/M/N/N+Q with exponential patience (abandonment): birth–death chain");
+  .describe(`M/M/N/N+Q with exponential patience (abandonment): birth–death chain. ${WAITING_MEASURES}; ${FULL_CONGESTION}`);
 export type PatienceQueueInput = z.input<typeof patienceQueueInputSchema>;
 
 /** M/M/N/N+Q+M, Palm's model of impatient callers (e.g. Gans, Koole & Mandelbaum 2003, M&SOM 5, the Erlang A model with a finite room). */
@@ -161,7 +168,9 @@ export const engsetQueueInputSchema = z
     meanPatience: patienceField,
     meanHolding: holdingField,
   })
-  .describe("Engset with waiting positions: S sources, N servers, Q waiting positions, calls finding all taken return to idle");
+  .describe(
+    `Engset with waiting positions: S sources, N servers, Q waiting positions, calls finding all taken return to idle (with S < N + Q none ever is; allSourcesBusy = share of time no source is idle). ${WAITING_MEASURES}; ${FULL_CONGESTION}`,
+  );
 export type EngsetQueueInput = z.input<typeof engsetQueueInputSchema>;
 
 /** Finite-source loss–delay system (Iversen, handbook, the machine-repair model with a limited queue). */
@@ -180,14 +189,14 @@ export const retrialServersInputSchema = z
     measure: z.enum(["loss", "first-attempt"]).default("loss").describe('"loss": probability a fresh call is finally lost; "first-attempt": first-attempt blocking'),
   })
   .superRefine((v, ctx) => checkFreshCalls(v, ctx))
-  .describe("smallest number of servers meeting a target loss with retrials (exact retrial model)");
+  .describe("smallest number of servers meeting a target loss with retrials (exact retrial model); measureOneLess = the measure with one server fewer");
 export type RetrialServersInput = z.input<typeof retrialServersInputSchema>;
 
 /**
  * Smallest N by bisection: both measures decrease as servers are added (more servers only
  * remove refusals), so the exact model is evaluated O(log N) times.
  */
-export function retrialServers(input: RetrialServersInput): RetrialLossResult & { target: number; measure: string; blockingOneLess: number } {
+export function retrialServers(input: RetrialServersInput): RetrialLossResult & { target: number; measure: string; measureOneLess: number } {
   const v = parseInput(retrialServersInputSchema, input);
   const value = (n: number) => {
     const fields = { ...v, servers: n, waitingPositions: 0 };
@@ -213,6 +222,6 @@ export function retrialServers(input: RetrialServersInput): RetrialLossResult & 
     method: `smallest N by bisection on the exact retrial model; ${result.method}`,
     target: v.target,
     measure: v.measure,
-    blockingOneLess: hi > 1 && !(v.persistence === 1 && v.traffic !== undefined && hi - 1 <= v.traffic) ? value(hi - 1).x : 1,
+    measureOneLess: hi > 1 && !(v.persistence === 1 && v.traffic !== undefined && hi - 1 <= v.traffic) ? value(hi - 1).x : 1,
   };
 }

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { phaseStationary, solveEnvironmentLossChain } from "./qbd";
 
@@ -118,7 +119,7 @@ export const mmppQueueInputSchema = z
     const states = v.rates.length * (v.servers + v.waitingPositions + 1);
     if (states > MAX_MMPP_STATES) ctx.addIssue({ code: "custom", path: ["waitingPositions"], message: `phases × (N + Q + 1) = ${states} exceeds ${MAX_MMPP_STATES} states` });
   })
-  .describe("MMPP/M/N/N+Q: Markov-modulated Poisson arrivals, N servers, Q waiting positions, optional exponential patience");
+  .describe(`MMPP/M/N/N+Q: Markov-modulated Poisson arrivals, N servers, Q waiting positions, optional exponential patience. ${WAITING_MEASURES}`);
 export type MmppQueueInput = z.input<typeof mmppQueueInputSchema>;
 
 export interface MmppQueueResult {

@@ -35,7 +35,7 @@ import {
   retrialServersInputSchema,
 } from "./markov-systems";
 import { peakednessInputSchema, streamPeakedness } from "./peakedness";
-import { INTERACTIVE_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
+import { INTERACTIVE_TIME_VARYING_WORK, MAX_TIME_VARYING_WORK, timeVaryingInputSchema, timeVaryingLoss } from "./time-varying";
 import {
   INTERACTIVE_PERIODIC_QUEUE_WORK,
   INTERACTIVE_PERIODIC_WORK,
@@ -71,7 +71,7 @@ export const erlangBOperationInputSchema = z
       });
     }
   })
-  .describe("Erlang B: {servers, traffic} → blocking; {servers, target} → largest traffic; {traffic, target} → smallest integer servers");
+  .describe("Erlang B: {servers, traffic} → blocking; {servers, target} → largest traffic; {traffic, target} → smallest integer servers (measureOneLess = blocking with one server fewer)");
 export type ErlangBOperationInput = z.infer<typeof erlangBOperationInputSchema>;
 
 function evaluateErlangB(raw: unknown): Record<string, unknown> {
@@ -79,7 +79,9 @@ function evaluateErlangB(raw: unknown): Record<string, unknown> {
   if (v.target === undefined) return { ...erlangBSummary({ servers: v.servers!, traffic: v.traffic! }) };
   if (v.traffic === undefined) return { ...maxTrafficForBlocking({ servers: v.servers!, target: v.target }) };
   if (v.traffic <= 0) throw inputError("traffic", "must be > 0 to size a group");
-  return { ...minServersForBlocking({ traffic: v.traffic, target: v.target }) };
+  // One name for the sizing operations' check figure (erlang-b, erlang-c-servers, engset-servers, retrial-servers)
+  const { blockingOneLess, ...sized } = minServersForBlocking({ traffic: v.traffic, target: v.target });
+  return { ...sized, measureOneLess: blockingOneLess };
 }
 
 export interface AnalyticOperation {
@@ -172,7 +174,7 @@ export const analyticOperations = {
     "time-varying load: pointwise stationary and modified offered load blocking per segment and over the cycle",
     timeVaryingInputSchema,
     timeVaryingLoss,
-    `interactive up to segments × nodes × (N + 1) = ${INTERACTIVE_TIME_VARYING_WORK}`,
+    `interactive up to about ${INTERACTIVE_TIME_VARYING_WORK} Erlang B steps (segments × quadrature nodes × the smaller of N + 1 and 2 × peak load + 932); at most ${MAX_TIME_VARYING_WORK}`,
   ),
   "periodic-loss": operation(
     "time-varying load with exponential holding: exact periodic blocking per segment and over the cycle (forward equations, stated error bound)",

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { batchMoments, batchSizeSchema, batchTail, type BatchSizeLaw } from "./laws";
 import { mmppPhasesSchema, mmppShapeIsSquare } from "./mmpp";
@@ -330,7 +331,7 @@ export const mmppRetrialInputSchema = z
     checkCommon(v, ctx);
     if (mmppShapeIsSquare(v, ctx)) checkSize(mmppModelOf(v), ctx);
   })
-  .describe("retrials on Markov-modulated Poisson arrivals: exact chain on (phase, calls in the system, calls in orbit), orbit truncated with a stated bound");
+  .describe(`retrials on Markov-modulated Poisson arrivals: exact chain on (phase, calls in the system, calls in orbit), orbit truncated with a stated bound. ${WAITING_MEASURES}`);
 export type MmppRetrialInput = z.input<typeof mmppRetrialInputSchema>;
 
 export const batchRetrialInputSchema = z
@@ -344,7 +345,7 @@ export const batchRetrialInputSchema = z
     checkCommon(v, ctx);
     checkSize(batchModelOf(v), ctx);
   })
-  .describe("retrials on Poisson batches of any size law: exact chain on (calls in the system, calls in orbit), each refused call of a batch retrying with the persistence");
+  .describe(`retrials on Poisson batches of any size law: exact chain on (calls in the system, calls in orbit), each refused call of a batch retrying with the persistence. ${WAITING_MEASURES}`);
 export type BatchRetrialInput = z.input<typeof batchRetrialInputSchema>;
 
 export const overflowRetrialInputSchema = z
@@ -355,7 +356,7 @@ export const overflowRetrialInputSchema = z
     checkShape(primaryStates(v.primaries), v.servers + v.waitingPositions, undefined, v.persistence, ctx);
   })
   .describe(
-    "retrials on overflow arrivals: primary groups with own Poisson traffic overflow to a final group of N servers (optional waiting room and patience), whose refused calls retry there; exact chain on (primary states, calls at the final group, calls in orbit)",
+    `retrials on overflow arrivals: primary groups with own Poisson traffic overflow to a final group of N servers (optional waiting room and patience), whose refused calls retry there; exact chain on (primary states, calls at the final group, calls in orbit). ${WAITING_MEASURES}`,
   );
 export type OverflowRetrialInput = z.input<typeof overflowRetrialInputSchema>;
 
@@ -440,7 +441,8 @@ export function overflowRetrialWork(v: { servers: number; waitingPositions: numb
   return b.states * b.lower * b.upper;
 }
 
-function finish(m: OrbitModel, what: string, v: Common, interactiveWork = INTERACTIVE_ORBIT_WORK): OrbitChainResult {
+/** `offered`: the offered traffic from the inputs (given, or from the phase law), echoed instead of Σ rate × π and its rounding. */
+function finish(m: OrbitModel, what: string, v: Common, offered: number, interactiveWork = INTERACTIVE_ORBIT_WORK): OrbitChainResult {
   const r = solveOrbitModel(m);
   const truncation = r.neglectedMass > 0 ? `; orbit truncated at ${r.orbitCap} calls, estimated neglected mass ${r.neglectedMass.toExponential(1)} (bound ${TRUNCATION_BOUND})` : "";
   return assertFiniteResult(
@@ -449,9 +451,10 @@ function finish(m: OrbitModel, what: string, v: Common, interactiveWork = INTERA
       servers: v.servers,
       waitingPositions: v.waitingPositions,
       persistence: v.persistence,
-      offeredTraffic: r.freshRate * v.meanHolding,
       large: workAt(m, m.persistence > 0 ? FIRST_CAP : 0) > interactiveWork,
       ...r,
+      offeredTraffic: offered,
+      freshRate: offered / v.meanHolding,
     },
     "orbitChain",
   );
@@ -473,7 +476,7 @@ export function mmppRetrialSystem(input: MmppRetrialInput): OrbitChainResult {
   const meanRate = v.rates.reduce((s, r, i) => s + r * phase[i], 0);
   if (!(meanRate > 0)) throw inputError("rates", "at least one phase needs a rate > 0");
   checkStable(v, meanRate * v.meanHolding);
-  return finish(mmppModelOf(v), "retrials on MMPP arrivals", v);
+  return finish(mmppModelOf(v), "retrials on MMPP arrivals", v, meanRate * v.meanHolding);
 }
 
 /** Retrials on Poisson batches (each refused call of a batch joins the orbit with the persistence). */
@@ -486,7 +489,7 @@ export function batchRetrialSystem(input: BatchRetrialInput): OrbitChainResult {
     while (m.fresh.sizes[smallest] === 0) smallest++;
     if (smallest > v.servers + v.waitingPositions) throw inputError("batchSize", `every batch is larger than servers + waitingPositions (${v.servers + v.waitingPositions}) and is always refused`);
   }
-  return finish(m, `retrials on Poisson batches (${v.batchSize.law} sizes, ${v.admission})`, v);
+  return finish(m, `retrials on Poisson batches (${v.batchSize.law} sizes, ${v.admission})`, v, v.traffic);
 }
 
 /**
@@ -500,5 +503,5 @@ export function overflowRetrialSystem(input: OverflowRetrialInput): OrbitChainRe
   const overflow = v.primaries.reduce((s, p) => s + p.traffic * erlangBUnchecked(p.servers, p.traffic), 0);
   if (!(overflow > 1e-280)) throw inputError("primaries", `no traffic overflows to the final group (overflow ${overflow} erlangs is below the float range)`);
   checkStable(v, overflow);
-  return finish(overflowModelOf(v), `retrials on overflow from ${v.primaries.length} primary group${v.primaries.length > 1 ? "s" : ""}`, v, INTERACTIVE_OVERFLOW_RETRIAL_WORK);
+  return finish(overflowModelOf(v), `retrials on overflow from ${v.primaries.length} primary group${v.primaries.length > 1 ? "s" : ""}`, v, overflow, INTERACTIVE_OVERFLOW_RETRIAL_WORK);
 }

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError, TeletrafficInputError } from "./errors";
 import { equivalentRandomUnchecked, overflowMomentsUnchecked } from "./overflow";
 import { erlangBStateDistribution, erlangBUnchecked } from "./erlang-b";
@@ -28,7 +29,8 @@ export const overflowLossInputSchema = z
     primaries: primaryGroupsSchema,
     servers: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).describe("servers N of the final (overflow) group"),
     waitingPositions: z.number().int().min(0).max(MAX_OVERFLOW_STATES - 1).default(0).describe("waiting positions Q (FIFO) at the final group, default 0"),
-    meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a call waiting at the final group, in mean holding times; default: waits for ever"),
+    meanPatience: z.number().gt(0).max(1e12).optional().describe("mean exponential patience of a call waiting at the final group; default: waits for ever"),
+    meanHolding: z.number().gt(0).max(1e12).default(1).describe("mean exponential holding time (primaries and final group), default 1; patience and waits are in the same unit"),
   })
   .superRefine((v, ctx) => {
     const k = v.primaries.reduce((p, g) => p * (g.servers + 1), 1);
@@ -38,7 +40,7 @@ export const overflowLossInputSchema = z
     }
     if (v.meanPatience !== undefined && v.waitingPositions === 0) ctx.addIssue({ code: "custom", path: ["meanPatience"], message: "needs waitingPositions > 0" });
   })
-  .describe("overflow network: primary groups with own Poisson traffic, overflow offered to one final group, exponential holding with a common mean");
+  .describe(`overflow network: primary groups with own Poisson traffic, overflow offered to one final group, exponential holding with a common mean. ${WAITING_MEASURES} (with waiting positions the last three are under waiting)`);
 export type OverflowLossInput = z.input<typeof overflowLossInputSchema>;
 
 export interface OverflowLossResult {
@@ -64,7 +66,7 @@ export interface OverflowLossResult {
   /** With waiting positions at the final group (Q > 0): measures of the overflow calls admitted there. */
   waiting?: {
     waitingPositions: number;
-    /** share of admitted overflow calls that wait, their mean wait (in mean holding times), abandonment */
+    /** share of admitted overflow calls that wait, their mean wait (in the unit of meanHolding), share of admitted calls that abandon */
     waitingProbability: number;
     meanWait: number;
     meanQueueLength: number;
@@ -118,9 +120,10 @@ export function primaryEnvironment(primaries: readonly PrimaryGroup[]): {
  * and Hayward are given for the same combined stream (summed Riordan moments) for comparison.
  */
 export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult {
-  const { primaries, servers: n, waitingPositions: q, meanPatience } = parseInput(overflowLossInputSchema, input);
+  const { primaries, servers: n, waitingPositions: q, meanPatience, meanHolding: h } = parseInput(overflowLossInputSchema, input);
   const capacity = n + q;
-  const alpha = meanPatience !== undefined ? 1 / meanPatience : 0;
+  // The chain runs in mean holding times: patience rate per holding time h / patience.
+  const alpha = meanPatience !== undefined ? h / meanPatience : 0;
   const { phases: k, digit, up, edges } = primaryEnvironment(primaries);
   const inCount = new Int32Array(k + 1);
   const outRate = new Float64Array(k);
@@ -220,7 +223,7 @@ export function overflowLossSystem(input: OverflowLossInput): OverflowLossResult
       ? {
           waitingPositions: q,
           waitingProbability: admitted > 0 ? toWait / admitted : 0,
-          meanWait: admitted > 0 ? queue / admitted : 0,
+          meanWait: admitted > 0 ? (queue / admitted) * h : 0,
           meanQueueLength: queue,
           abandonmentProbability: admitted > 0 ? (alpha * queue) / admitted : 0,
           lossProbability: Math.min(1, (lost + alpha * queue) / offered),

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, parseInput, TeletrafficConvergenceError } from "./errors";
 import { MAX_TRAFFIC } from "./erlang-b";
 import type { MmppQueueResult } from "./mmpp";
@@ -561,7 +562,7 @@ export const periodicQueueInputSchema = z
     const work = periodicQueueWork(v.servers, v.waitingPositions, v.profile, v.meanHolding, v.meanPatience, v.tolerance);
     if (work > MAX_PERIODIC_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_WORK} state updates` });
   })
-  .describe("time-varying Poisson arrivals on N servers with Q waiting positions (exponential holding, optional exponential patience): exact periodic measures (forward equations)");
+  .describe(`time-varying Poisson arrivals on N servers with Q waiting positions (exponential holding, optional exponential patience): exact periodic measures (forward equations). ${WAITING_MEASURES}`);
 export type PeriodicQueueInput = z.input<typeof periodicQueueInputSchema>;
 
 /** Estimated state updates of periodicQueueSystem (by the bracketed solver where no contraction can be bounded). */

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { STEP_MEAN, uniformisationWeights } from "./uniformisation";
 import { cappedStationaryLaw, extrapolatedTail, levelMass, stationaryOrbitCap, TRUNCATION_BOUND, type MarkovSystemModel, type RetrialRateMeasures } from "./retrial-chain";
@@ -81,7 +82,7 @@ export const periodicRetrialInputSchema = z
       else if (work > MAX_PERIODIC_RETRIAL_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_PERIODIC_RETRIAL_WORK} state updates` });
     }
   })
-  .describe("time-varying Poisson fresh calls on N servers (+ Q waiting positions) with an orbit of retrying calls: exact periodic measures per segment and over the cycle, with a stated error bound");
+  .describe(`time-varying Poisson fresh calls on N servers (+ Q waiting positions) with an orbit of retrying calls: exact periodic measures per segment and over the cycle, with a stated error bound. ${WAITING_MEASURES}`);
 export type PeriodicRetrialInput = z.input<typeof periodicRetrialInputSchema>;
 type Parsed = z.output<typeof periodicRetrialInputSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput } from "./errors";
 import { hyperexponentialBranches, lawMean, type Law } from "./laws";
 import type { MmppQueueResult } from "./mmpp";
@@ -55,7 +56,7 @@ export const renewalQueueInputSchema = z
     const work = renewalQueueWork(v.servers, v.waitingPositions, v.interarrival, v.meanHolding, v.meanPatience);
     if (work > MAX_RENEWAL_QUEUE_WORK) ctx.addIssue({ code: "custom", path: ["servers"], message: `estimated work ${Number(work.toPrecision(3))} exceeds ${MAX_RENEWAL_QUEUE_WORK}` });
   })
-  .describe("GI/M/N/N+Q: renewal arrivals, exponential holding, Q waiting positions, optional exponential patience (embedded chain at arrivals)");
+  .describe(`GI/M/N/N+Q: renewal arrivals, exponential holding, Q waiting positions, optional exponential patience (embedded chain at arrivals). ${WAITING_MEASURES}`);
 export type RenewalQueueInput = z.input<typeof renewalQueueInputSchema>;
 
 /** The measures of the MMPP queue (the same system with another arrival stream), and the series' size. */

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { WAITING_MEASURES } from "./measure-words";
 import { assertFiniteResult, inputError, parseInput, TeletrafficConvergenceError } from "./errors";
 import { lawMean, type Law } from "./laws";
 import { gthStationary } from "./qbd";
@@ -48,7 +49,7 @@ export const renewalRetrialInputSchema = z
   .superRefine((v, ctx) => {
     if (v.meanPatience !== undefined && v.waitingPositions === 0) ctx.addIssue({ code: "custom", path: ["meanPatience"], message: "needs waitingPositions > 0" });
   })
-  .describe("retrials on renewal arrivals: exact embedded chain at arrivals on (calls, orbit), orbit truncated with a stated bound");
+  .describe(`retrials on renewal arrivals: exact embedded chain at arrivals on (calls, orbit), orbit truncated with a stated bound. ${WAITING_MEASURES}`);
 export type RenewalRetrialInput = z.input<typeof renewalRetrialInputSchema>;
 
 export interface RenewalRetrialResult extends RetrialRateMeasures {

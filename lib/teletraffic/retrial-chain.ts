@@ -42,8 +42,10 @@ export interface MarkovSystemMeasures {
   firstAttemptBlocking: number;
   /** fraction of time all N servers are busy */
   timeCongestion: number;
-  /** fraction of time servers and waiting positions are all taken */
+  /** fraction of time servers and waiting positions are all taken (N + Q calls in the system; 0 when fewer sources than N + Q) */
   fullCongestion: number;
+  /** finite sources only: fraction of time no source is idle (all S in the system or in orbit), so no fresh call can arrive */
+  allSourcesBusy?: number;
   /** refused attempts / all attempts */
   attemptCongestion: number;
   attemptsPerCall: number;
@@ -267,6 +269,10 @@ function measures(model: MarkovSystemModel, pi: Float64Array, cap: number, negle
   let retryRefused = 0;
   let timeCongestion = 0;
   let full = 0;
+  let allSourcesBusy = 0;
+  const sources = model.arrivals.kind === "finite-source" ? model.arrivals.sources : undefined;
+  // k = kMax is "full" only when kMax = N + Q; with fewer sources it is the state where all of them are in the system
+  const fillable = kMax === n + model.waitingPositions;
   let meanOrbit = 0;
   let busy = 0;
   let queue = 0;
@@ -285,8 +291,9 @@ function measures(model: MarkovSystemModel, pi: Float64Array, cap: number, negle
       busy += Math.min(k, n) * x;
       queue += Math.max(0, k - n) * x;
       if (k >= n) timeCongestion += x;
+      if (sources !== undefined && k + o === sources) allSourcesBusy += x;
       if (k === kMax) {
-        full += x;
+        if (fillable) full += x;
         freshRefused += f;
         retryRefused += rt;
         if (o === cap && p > 0) lostAtCap += p * f;
@@ -305,6 +312,7 @@ function measures(model: MarkovSystemModel, pi: Float64Array, cap: number, negle
     freshRate,
     timeCongestion,
     fullCongestion: full,
+    ...(sources !== undefined ? { allSourcesBusy } : {}),
     ...retrialRateMeasures({ freshRate, freshRefused, retryRate, retryRefused, lostRate, admitted, admittedToWait, abandonRate, meanOrbit, busy, queue }),
   };
 }

@@ -2,9 +2,20 @@ import { z } from "zod";
 import { assertFiniteResult, parseInput } from "./errors";
 import { erlangBUnchecked } from "./erlang-b";
 
-/** segments × quadrature nodes × N above which an evaluation is no longer interactive (about 100 ms). */
-export const INTERACTIVE_TIME_VARYING_WORK = 20_000_000;
+/**
+ * Work is counted in Erlang B recursion steps: each evaluation of B(N, A) walks the recursion in plain
+ * floating point only until B falls below 1e-280, then adds the rest of the way in closed form
+ * (erlang-b-kernel.ts), so it costs at most min(N, ⌈2A⌉ + 931) + 1 steps: beyond j = 2A every step
+ * multiplies B by A/j < 1/2, and 2^-931 < 1e-280. Measured on this 2-core machine (December 2026):
+ * 6.5 to 10 ns per step (N = 100 000, 1000 segments of one holding time at 900/1100 erlangs:
+ * 3.1e7 steps estimated, 0.22 s; before the closed-form tail it walked every step to N in logs, 51 s).
+ */
+/** Estimated steps answered interactively, about 0.1 s; the analytic pool allows 20 × this (lib/analytic-pool/limits.ts). */
+export const INTERACTIVE_TIME_VARYING_WORK = 10_000_000;
+/** Estimated steps above which the input is refused outright (about 13 s at the measured cost; the estimate is an upper bound). */
 export const MAX_TIME_VARYING_WORK = 2_000_000_000;
+/** What the work estimate counts, as refusals name it. */
+export const TIME_VARYING_WORK_MEASURE = "the estimated work, Erlang B evaluations (segments × quadrature nodes) × steps each (the smaller of N + 1 and 2 × peak load + 932)";
 /** Gauss–Legendre nodes per piece of at most one mean holding time. */
 const NODES = 8;
 /** After this many mean holding times the modified offered load equals λ h to double precision. */
@@ -32,16 +43,41 @@ export const timeVaryingInputSchema = z
   })
   .superRefine((v, ctx) => {
     refineProfileHasTraffic(v.profile, ctx);
-    const work = timeVaryingWork(v.servers, v.profile, v.meanHolding);
-    if (work > MAX_TIME_VARYING_WORK) ctx.addIssue({ code: "custom", path: ["profile"], message: `segments × nodes × N = ${work} exceeds ${MAX_TIME_VARYING_WORK}` });
+    // zod runs this refinement even when a field failed: size the work only for well-formed input
+    if (!Number.isInteger(v.servers) || !(v.meanHolding > 0)) return;
+    const { evaluations, stepsPerEvaluation, peakLoad, work } = timeVaryingWorkParts(v.servers, v.profile, v.meanHolding);
+    if (work > MAX_TIME_VARYING_WORK) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["profile"],
+        message: `estimated work ${work} Erlang B steps (${evaluations} evaluations over ${v.profile.length} segments × ${stepsPerEvaluation} steps each, the smaller of N + 1 = ${v.servers + 1} and 2 × peak load ${Number(peakLoad.toPrecision(6))} erlangs + 932) exceeds ${MAX_TIME_VARYING_WORK}; use fewer or shorter segments (up to ${SETTLED} holding times of each are integrated) or fewer servers`,
+      });
+    }
   })
   .describe("time-varying Poisson arrivals on N servers: pointwise stationary and modified offered load approximations of blocking per segment and over the cycle");
 export type TimeVaryingInput = z.input<typeof timeVaryingInputSchema>;
 
-export function timeVaryingWork(servers: number, profile: Array<{ duration: number }>, meanHolding: number): number {
-  let nodes = 0;
-  for (const s of profile) nodes += NODES * Math.min(SETTLED, Math.ceil(s.duration / meanHolding)) + 1;
-  return nodes * (servers + 1);
+/** Estimated Erlang B recursion steps of `timeVaryingLoss` (see INTERACTIVE_TIME_VARYING_WORK), in O(segments). */
+export function timeVaryingWork(servers: number, profile: ReadonlyArray<{ duration: number; rate: number }>, meanHolding: number): number {
+  return timeVaryingWorkParts(servers, profile, meanHolding).work;
+}
+
+export function timeVaryingWorkParts(
+  servers: number,
+  profile: ReadonlyArray<{ duration: number; rate: number }>,
+  meanHolding: number,
+): { evaluations: number; stepsPerEvaluation: number; peakLoad: number; work: number } {
+  let evaluations = 0;
+  let peakRate = 0;
+  for (const s of profile) {
+    // the pointwise value, NODES per piece, and the settled rest (timeVaryingLoss)
+    evaluations += NODES * Math.max(1, Math.ceil(Math.min(s.duration, SETTLED * meanHolding) / meanHolding)) + 2;
+    peakRate = Math.max(peakRate, s.rate);
+  }
+  // the load m(t) never exceeds the peak rate × h, and B(N, A) is evaluated only at loads up to that
+  const peakLoad = peakRate * meanHolding;
+  const stepsPerEvaluation = Math.min(servers + 1, Math.ceil(2 * peakLoad) + 932);
+  return { evaluations, stepsPerEvaluation, peakLoad, work: evaluations * stepsPerEvaluation };
 }
 
 export interface TimeVaryingSegment {

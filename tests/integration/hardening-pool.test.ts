@@ -80,13 +80,13 @@ describe("the analytic pool", () => {
       message: expect.stringMatching(/state space .* is 199600, above the interactive limit of 20000/),
     });
     // Finite inputs that overflow inside the method (issue #10 item 6): never a 500.
-    await expect(evaluateInPool("finite-queue", { servers: 10, traffic: 1e-200, queuePositions: 5 }, { userId: "u" })).rejects.toMatchObject({ kind: "no-answer" });
+    await expect(evaluateInPool("finite-queue", { servers: 10, traffic: 1e-200, waitingPositions: 5 }, { userId: "u" })).rejects.toMatchObject({ kind: "no-answer" });
     await expect(evaluateInPool("erlang-b", { servers: 30, traffic: -1 }, { userId: "u" })).rejects.toMatchObject({ kind: "input", field: "traffic" });
   });
 
   it("answers the issue's extreme but valid inputs with a finite result or a 4xx kind, never a server fault", async () => {
     const cases: [Parameters<typeof evaluateInPool>[0], unknown][] = [
-      ["finite-queue", { servers: 10, traffic: 1e-200, queuePositions: 5 }],
+      ["finite-queue", { servers: 10, traffic: 1e-200, waitingPositions: 5 }],
       ["equivalent-random", { mean: 1e-20, variance: 2e-20, servers: 5 }],
       ["hayward", { mean: 1e-310, variance: 1e-309, servers: 3 }],
       ["mmpp-loss", { servers: 10, rates: [5, 1], switching: [[0, 1e-300], [1e-300, 0]] }],

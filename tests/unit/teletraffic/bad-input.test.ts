@@ -33,7 +33,7 @@ const cases: Array<[label: string, field: string, run: () => unknown]> = [
   ["Erlang C at A = N", "traffic", () => T.erlangC({ servers: 10, traffic: 10 })],
   ["Erlang C with fractional servers", "servers", () => T.erlangC({ servers: 2.5, traffic: 1 })],
   ["Erlang C with zero holding time", "meanHolding", () => T.erlangC({ servers: 5, traffic: 1, meanHolding: 0 })],
-  ["finite queue with negative positions", "queuePositions", () => T.finiteQueue({ servers: 5, traffic: 1, queuePositions: -1 })],
+  ["finite queue with negative positions", "waitingPositions", () => T.finiteQueue({ servers: 5, traffic: 1, waitingPositions: -1 })],
   ["Engset without sources", "sources", () => T.engset({ sources: 0, servers: 1, idleRate: 1 })],
   ["Engset negative idle rate", "idleRate", () => T.engset({ sources: 5, servers: 1, idleRate: -1 })],
   ["Engset inverse at α = 1", "attemptPerSource", () => T.engsetIdleRateForOfferedTraffic({ sources: 5, servers: 2, attemptPerSource: 1 })],
@@ -137,7 +137,7 @@ describe("operation registry", () => {
     const inputs: Record<string, unknown> = {
       "erlang-b": { servers: 29.5, traffic: 20 },
       "erlang-c": { servers: 10, traffic: 8, waitLimit: 0.5 },
-      "finite-queue": { servers: 10, traffic: 8, queuePositions: 5 },
+      "finite-queue": { servers: 10, traffic: 8, waitingPositions: 5 },
       engset: { sources: 20, servers: 5, idleRate: 0.2 },
       "engset-idle-rate": { sources: 20, servers: 5, attemptPerSource: 0.2 },
       "overflow-moments": { traffic: 10, servers: 8 },

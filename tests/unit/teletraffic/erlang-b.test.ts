@@ -213,3 +213,82 @@ describe("sizing at scale (results only; speed is in the benchmark)", () => {
     expect(erlangB(10_000, r.traffic * (1 + 1e-10))).toBeGreaterThan(0.01);
   });
 });
+
+describe("real N near 0 (review finding 1): B in [0, 1], carried traffic without the cancellation A (1 − B)", () => {
+  // [x, A, B(x, A), 1 − B(x, A), A (1 − B)/x] with B = A^x e^-A / Γ(x+1, A) and 1 − B = x Γ(x, A) / Γ(x+1, A)
+  // (upper incomplete gamma), computed with mpmath 80 digits on 2 Dec 2026 (mpmath.gammainc; x and A are the
+  // doubles as given, converted exactly).
+  const reference: Array<[number, number, number, number, number]> = [
+    [1e-16, 1, 0.99999999999999994037, 5.9634736232319405291e-17, 0.59634736232319406537],
+    [1e-12, 1, 0.99999999999940365264, 5.9634736232310439756e-13, 0.59634736232310440955],
+    [1e-6, 1, 0.99999940365272734161, 5.9634727265839417387e-7, 0.59634727265839420085],
+    [1e-300, 1, 1.0, 5.9634736232319408929e-301, 0.59634736232319407434],
+    [1e-16, 1e-300, 0.99999999999993098017, 6.9019831223328833929e-14, 6.9019831223328837101e-298],
+    [1e-10, 2.5, 0.99999999996964741635, 3.0352583648438562451e-11, 0.75881459121096403364],
+    [0.3, 1.2, 0.848289257485549124, 0.151710742514450876, 0.60684297005780350401],
+    [0.7, 1.6, 0.72118097294364196825, 0.27881902705635803175, 0.63730063327167557696],
+    [1e-9, 0.01, 0.99999999592148856416, 4.0785114358365534303e-9, 0.040785114358365532612],
+    [0.5, 2.9, 0.86837533280743791969, 0.13162466719256208031, 0.76342306971686004239],
+    [1e-16, 3, 0.99999999999999997379, 2.6208374025531848962e-17, 0.78625122076595548531],
+  ];
+  it.each(reference)("x = %s, A = %s: blocking, carried traffic and occupancy per server against mpmath", (x, a, b, complement, perServer) => {
+    const s = erlangBSummary({ servers: x, traffic: a });
+    expect(s.blocking).toBeLessThanOrEqual(1);
+    expect(relativeError(s.blocking, b)).toBeLessThan(1e-15);
+    expect(relativeError(s.carriedTraffic, a * complement)).toBeLessThan(1e-13);
+    expect(relativeError(s.occupancyPerServer, perServer)).toBeLessThan(1e-13);
+    expect(relativeError(s.lostTraffic, a * b)).toBeLessThan(1e-15);
+  });
+  it("the reviewer's case x = 1e-300, A = 1: blocking 1, carried traffic tiny and positive, occupancy its N → 0 limit A e^A E1(A)", () => {
+    const s = erlangBSummary({ servers: 1e-300, traffic: 1 });
+    expect(s.blocking).toBe(1);
+    expect(s.carriedTraffic).toBeGreaterThan(0);
+    expect(s.carriedTraffic).toBeLessThan(1e-299);
+    expect(s.occupancyPerServer).toBeCloseTo(0.596347362323194, 14);
+  });
+  it("a subnormal group at subnormal traffic: finite, B <= 1, occupancy in [0, 1]", () => {
+    const s = erlangBSummary({ servers: 0.999, traffic: 5e-324 });
+    expect(s.blocking).toBeGreaterThan(0);
+    expect(s.blocking).toBeLessThan(1e-322);
+    expect(s.carriedTraffic).toBe(5e-324);
+    expect(s.occupancyPerServer).toBeGreaterThanOrEqual(0);
+    expect(s.occupancyPerServer).toBeLessThan(1e-322);
+  });
+  it("N = 0 exactly: blocking 1, nothing carried, occupancy 0 (no servers)", () => {
+    expect(erlangBSummary({ servers: 0, traffic: 1 })).toMatchObject({ blocking: 1, carriedTraffic: 0, occupancyPerServer: 0 });
+  });
+  it("property: 0 <= B <= 1, 0 <= carried <= min(N, A), occupancy per server in [0, 1], for real N in [0, 3] including tiny N", () => {
+    fc.assert(
+      fc.property(
+        fc.oneof(fc.double({ min: 0, max: 3, noNaN: true }), fc.double({ min: 1e-320, max: 1e-6, noNaN: true })),
+        fc.oneof(fc.double({ min: 0, max: 200, noNaN: true }), fc.double({ min: 1e-320, max: 1e-3, noNaN: true })),
+        (x, a) => {
+          const s = erlangBSummary({ servers: x, traffic: a });
+          return (
+            s.blocking >= 0 &&
+            s.blocking <= 1 &&
+            s.carriedTraffic >= 0 &&
+            s.carriedTraffic <= Math.min(x, a) * (1 + 1e-13) &&
+            s.occupancyPerServer >= 0 &&
+            s.occupancyPerServer <= 1
+          );
+        },
+      ),
+      { seed: 20261202, numRuns: 2000 },
+    );
+  });
+});
+
+describe("deep tail (B below 1e-280) in closed form: ln B against mpmath", () => {
+  // ln B = x ln A − A − ln Γ(x+1, A), computed with mpmath 80 digits on 2 Dec 2026
+  it.each([
+    [100_000, 1000, -361523.6940009081599239],
+    [100_000, 10, -821050.7125997172967275],
+    [5000, 1e-3, -72129.92090378745172536],
+    [40.5, 1e-9, -951.4666434405075268115],
+    [2000.25, 900, -501.934528904475089827],
+    [100_000, 99_000, -11.70823796806810329321],
+  ])("ln B(%s, %s) to 1e-13 relative", (x, a, reference) => {
+    expect(relativeError(logErlangB(x, a), reference)).toBeLessThan(1e-13);
+  });
+});

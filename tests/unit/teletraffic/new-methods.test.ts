@@ -229,7 +229,7 @@ describe("sizing inverses", () => {
       const r = erlangCServers({ traffic: 25, target, measure, waitLimit });
       const value = (n: number) => {
         const c = erlangC({ servers: n, traffic: 25, waitLimit });
-        return measure === "waiting-probability" ? c.probabilityOfWaiting : measure === "mean-wait" ? c.meanWait : 1 - c.probabilityWaitWithinLimit!;
+        return measure === "waiting-probability" ? c.waitingProbability : measure === "mean-wait" ? c.meanWait : 1 - c.probabilityWaitWithinLimit!;
       };
       expect(value(r.servers)).toBeLessThanOrEqual(target * (1 + 1e-12));
       expect(value(r.servers - 1)).toBeGreaterThan(target);

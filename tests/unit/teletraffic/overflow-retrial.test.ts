@@ -81,12 +81,13 @@ describe("retrials on overflow traffic (exact chain on primary states, calls at 
     expect(relativeError(a.lossProbability, b.blocking)).toBeLessThan(1e-12);
     expect(relativeError(a.timeCongestion, b.timeCongestion)).toBeLessThan(1e-12);
     expect(relativeError(a.offeredTraffic, b.overflowOffered)).toBeLessThan(1e-12);
-    // With a waiting room and patience; overflowLossSystem works in mean holding times.
+    // With a waiting room and patience, both in the same time unit (meanHolding 3).
     const c = overflowRetrialSystem({ primaries, servers: 3, waitingPositions: 2, meanHolding: 3, meanPatience: 1.5, persistence: 0, meanRetryDelay: 1 });
-    const w = overflowLossSystem({ primaries, servers: 3, waitingPositions: 2, meanPatience: 0.5 }).waiting!;
+    const w = overflowLossSystem({ primaries, servers: 3, waitingPositions: 2, meanHolding: 3, meanPatience: 1.5 }).waiting!;
     expect(relativeError(c.lossProbability, w.lossProbability)).toBeLessThan(1e-12);
     expect(relativeError(c.waitingProbability, w.waitingProbability)).toBeLessThan(1e-12);
-    expect(relativeError(c.meanWait, w.meanWait * 3)).toBeLessThan(1e-12);
+    expect(relativeError(c.abandonmentProbability, w.abandonmentProbability)).toBeLessThan(1e-12);
+    expect(relativeError(c.meanWait, w.meanWait)).toBeLessThan(1e-12);
   });
 
   it("one primary group without servers is the Poisson retrial model", () => {

@@ -26,14 +26,14 @@ describe("Erlang C", () => {
     [100, 955n, 10n],
   ])("N = %i, A = %i/%i against exact BigInt Erlang C (Erlang 1917, direct sum)", (n, p, q) => {
     const r = erlangC({ servers: n, traffic: Number(p) / Number(q) });
-    expect(relativeError(r.probabilityOfWaiting, exactErlangC(n, p, q))).toBeLessThan(1e-13);
+    expect(relativeError(r.waitingProbability, exactErlangC(n, p, q))).toBeLessThan(1e-13);
   });
   it("satisfies C = N B / (N − A (1 − B)) (known relation between Erlang B and C, e.g. Iversen, Teletraffic Engineering, delay chapter)", () => {
     fc.assert(
       fc.property(fc.integer({ min: 1, max: 500 }), fc.double({ min: 0.2, max: 0.99, noNaN: true }), (n, load) => {
         const a = n * load;
         const b = erlangB(n, a);
-        return relativeError(erlangC({ servers: n, traffic: a }).probabilityOfWaiting, (n * b) / (n - a * (1 - b))) < 1e-12;
+        return relativeError(erlangC({ servers: n, traffic: a }).waitingProbability, (n * b) / (n - a * (1 - b))) < 1e-12;
       }),
       { seed: 42, numRuns: 200 },
     );
@@ -67,26 +67,32 @@ describe("M/M/N/N+Q (finite waiting room)", () => {
     [8, 6, 1],
   ])("N = %i, A = %f, Q = %i against a dense solve of the birth–death generator", (n, a, q) => {
     const p = dense(n, a, q);
-    const r = finiteQueue({ servers: n, traffic: a, queuePositions: q, meanHolding: 2 });
+    const r = finiteQueue({ servers: n, traffic: a, waitingPositions: q, meanHolding: 2 });
     const waiting = p.slice(n, n + q).reduce((s, v) => s + v, 0);
     const lq = p.reduce((s, v, j) => s + Math.max(0, j - n) * v, 0);
-    expect(relativeError(r.timeCongestion, p[n + q])).toBeLessThan(1e-12);
-    expect(relativeError(r.probabilityOfWaiting, waiting)).toBeLessThan(1e-12);
+    const allBusy = p.slice(n).reduce((s, v) => s + v, 0);
+    expect(relativeError(r.fullCongestion, p[n + q])).toBeLessThan(1e-12);
+    expect(relativeError(r.timeCongestion, allBusy)).toBeLessThan(1e-12);
+    // waiting probability over admitted calls (the simulation's denominator): P(N <= k < N + Q) / (1 − p_{N+Q})
+    expect(relativeError(r.waitingProbability, waiting / (1 - p[n + q]))).toBeLessThan(1e-12);
     expect(relativeError(r.meanQueueLength, lq)).toBeLessThan(1e-12);
     // Little's law on admitted calls, in units of the holding time (here h = 2)
     expect(relativeError(r.meanWait, (2 * lq) / (a * (1 - p[n + q])))).toBeLessThan(1e-12);
   });
   it("Q = 0 is Erlang B; Q → ∞ with A < N tends to Erlang C (definitions)", () => {
-    expect(finiteQueue({ servers: 10, traffic: 8, queuePositions: 0 }).timeCongestion).toBe(erlangB(10, 8));
-    const big = finiteQueue({ servers: 10, traffic: 8, queuePositions: 5000 });
+    const zero = finiteQueue({ servers: 10, traffic: 8, waitingPositions: 0 });
+    expect(zero.timeCongestion).toBe(erlangB(10, 8));
+    expect(zero.fullCongestion).toBe(erlangB(10, 8));
+    expect(zero.waitingProbability).toBe(0);
+    const big = finiteQueue({ servers: 10, traffic: 8, waitingPositions: 5000 });
     const c = erlangC({ servers: 10, traffic: 8 });
-    expect(relativeError(big.probabilityOfWaiting, c.probabilityOfWaiting)).toBeLessThan(1e-12);
+    expect(relativeError(big.waitingProbability, c.waitingProbability)).toBeLessThan(1e-12);
     expect(relativeError(big.meanWait, c.meanWait)).toBeLessThan(1e-12);
   });
   it("overload with a long queue does not overflow: A = 2N, Q = 100 000", () => {
-    const r = finiteQueue({ servers: 50, traffic: 100, queuePositions: 100_000 });
+    const r = finiteQueue({ servers: 50, traffic: 100, waitingPositions: 100_000 });
     // in deep overload nearly half the offered calls are lost (carried ≈ N)
     expect(r.carriedTraffic).toBeCloseTo(50, 9);
-    expect(r.timeCongestion).toBeCloseTo(0.5, 9);
+    expect(r.fullCongestion).toBeCloseTo(0.5, 9);
   });
 });

@@ -58,18 +58,20 @@ describe("M/M/N/N+Q with a long queue (accuracy of the geometric queue sums)", (
   it("N = 1, A = 1e7, Q = 1e6 is M/M/1/K, K = Q + 1: p_j ∝ ρ^j (Kleinrock, Queueing Systems vol. 1), so carried = 1 − p_0 ≈ 1 and P(wait) = Σ_{0<j<K} p_j ≈ 1/ρ", () => {
     const rho = 1e7;
     const q = 1_000_000;
-    const r = finiteQueue({ servers: 1, traffic: rho, queuePositions: q });
+    const r = finiteQueue({ servers: 1, traffic: rho, waitingPositions: q });
     // relative to the top state p_{K−i} ∝ ρ^−i; ρ^−K underflows, so Σ_{i>=1} ρ^−i = 1/(ρ − 1) gives
     // 1 − p_K = 1/ρ, p_0 = 0, P(wait) = 1/ρ; E[i] = 1/(ρ − 1), so L = K − 1/(ρ − 1) and
     // L_q = L − (1 − p_0) = Q − 1/(ρ − 1)
     expect(relativeError(r.carriedTraffic, 1)).toBeLessThan(1e-12);
     expect(r.carriedTraffic).toBeLessThanOrEqual(1 + 1e-15);
-    expect(relativeError(r.probabilityOfWaiting, 1 / rho)).toBeLessThan(1e-12);
-    expect(relativeError(r.timeCongestion, 1 - 1 / rho)).toBeLessThan(1e-15);
+    // over admitted calls: (1/ρ) / (1 − p_K) = (1/ρ) / (1/ρ) = 1 − p_0/(1 − p_K), and p_0 underflows
+    expect(relativeError(r.waitingProbability, 1)).toBeLessThan(1e-12);
+    expect(relativeError(r.fullCongestion, 1 - 1 / rho)).toBeLessThan(1e-15);
+    expect(r.timeCongestion).toBe(1); // 1 − p_0, p_0 ∝ ρ^−K underflows
     expect(r.meanQueueLength).toBeLessThanOrEqual(q);
     expect(relativeError(r.meanQueueLength, q - 1 / (rho - 1))).toBeLessThan(1e-15);
   });
-  it("N = 3, A = 2.9999, Q = 100 000: time congestion against an exact rational value", () => {
+  it("N = 3, A = 2.9999, Q = 100 000: full-system congestion against an exact rational value", () => {
     // Exact value computed with Python decimal at 60 digits from the exact binary value of 2.9999:
     //   from decimal import Decimal as D, getcontext
     //   getcontext().prec = 60; getcontext().Emax = 10**9; getcontext().Emin = -10**9
@@ -79,8 +81,8 @@ describe("M/M/N/N+Q with a long queue (accuracy of the geometric queue sums)", (
     //   total = w[0] + w[1] + w[2] + w[3]*geo
     //   print(repr(float(w[3]*rho**q/total)))   # 1.2329704845835904e-06
     // (ln(A/N) as log(A/N) carried the rounding of A/N times Q: 2.3e-12 relative error)
-    const r = finiteQueue({ servers: 3, traffic: 2.9999, queuePositions: 100_000 });
-    expect(relativeError(r.timeCongestion, 1.2329704845835904e-6)).toBeLessThan(1e-13);
+    const r = finiteQueue({ servers: 3, traffic: 2.9999, waitingPositions: 100_000 });
+    expect(relativeError(r.fullCongestion, 1.2329704845835904e-6)).toBeLessThan(1e-13);
   });
 });
 

@@ -102,8 +102,11 @@ describe("limits that reduce to known formulas", () => {
   });
   it("no patience and no retrials: M/M/N/N+Q (finiteQueue, an independent closed form)", () => {
     const r = patienceQueue({ servers: 6, traffic: 5, waitingPositions: 4 });
-    const f = finiteQueue({ servers: 6, traffic: 5, queuePositions: 4 });
-    expect(relativeError(r.firstAttemptBlocking, f.timeCongestion)).toBeLessThan(1e-12);
+    const f = finiteQueue({ servers: 6, traffic: 5, waitingPositions: 4 });
+    expect(relativeError(r.firstAttemptBlocking, f.fullCongestion)).toBeLessThan(1e-12);
+    expect(relativeError(r.fullCongestion, f.fullCongestion)).toBeLessThan(1e-12);
+    expect(relativeError(r.timeCongestion, f.timeCongestion)).toBeLessThan(1e-12);
+    expect(relativeError(r.waitingProbability, f.waitingProbability)).toBeLessThan(1e-12);
     expect(relativeError(r.meanQueueLength, f.meanQueueLength)).toBeLessThan(1e-12);
     expect(relativeError(r.meanWait, f.meanWait)).toBeLessThan(1e-12);
   });
@@ -128,7 +131,7 @@ describe("sizing with retrials", () => {
     const below = retrialLossSystem({ servers: r.servers - 1, traffic: 20, persistence: 0.8, meanRetryDelay: 0.5 });
     expect(at.lossProbability).toBeLessThanOrEqual(0.005);
     expect(below.lossProbability).toBeGreaterThan(0.005);
-    expect(r.blockingOneLess).toBe(below.lossProbability);
+    expect(r.measureOneLess).toBe(below.lossProbability);
     // extended Erlang B at the same N promises less loss than the exact model delivers
     expect(extendedErlangB({ servers: r.servers - 1, traffic: 20, persistence: 0.8 }).probabilityFreshCallLost).toBeLessThan(below.lossProbability);
   });
