@@ -23,11 +23,29 @@ export function isInputError(error: unknown): error is Error {
   return error instanceof Error && (error as { kind?: unknown }).kind === "input";
 }
 
-/** Aligns label/value rows into a two-column table. */
+/** Terminal width a table's title is wrapped to (the definitions of the measures make some titles long). */
+const TITLE_COLUMNS = 100;
+
+/** Splits text into lines of at most `columns` characters at spaces (a longer word keeps its own line). */
+function wrap(text: string, columns: number): string[] {
+  const lines: string[] = [];
+  let line = "";
+  for (const word of text.split(" ")) {
+    if (line && line.length + 1 + word.length > columns) {
+      lines.push(line);
+      line = word;
+    } else line = line ? `${line} ${word}` : word;
+  }
+  return line ? [...lines, line] : lines;
+}
+
+/** Aligns label/value rows into a two-column table under a title wrapped to TITLE_COLUMNS and underlined. */
 export function formatTable(rows: Array<[string, string | number]>, title?: string): string {
   const width = Math.max(0, ...rows.map(([label]) => label.length));
   const lines = rows.map(([label, value]) => `${label.padEnd(width)}  ${typeof value === "number" ? formatNumber(value) : value}`);
-  return (title ? [title, "-".repeat(Math.max(title.length, width + 12)), ...lines] : lines).join("\n");
+  if (!title) return lines.join("\n");
+  const heading = wrap(title, TITLE_COLUMNS);
+  return [...heading, "-".repeat(Math.max(...heading.map((l) => l.length), width + 12)), ...lines].join("\n");
 }
 
 export function formatNumber(value: number): string {

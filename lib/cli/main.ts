@@ -58,7 +58,12 @@ async function main(argv: string[]): Promise<number> {
     process.stdout.write(json ? `${JSON.stringify(output.json)}\n` : `${output.table}\n`);
     return 0;
   } catch (error) {
-    if (error instanceof ZodError || error instanceof CliUsageError || isInputError(error)) {
+    if (error instanceof CliUsageError) {
+      // One line per problem: the analytic commands report every bad flag at once, one a line.
+      for (const line of error.message.split("\n").filter((l) => l.trim())) console.error(`${command.name}: ${line.trim()}`);
+      return 2;
+    }
+    if (error instanceof ZodError || isInputError(error)) {
       console.error(`${command.name}: ${describeError(error)}`);
       return 2;
     }

@@ -51,8 +51,11 @@ export function parseSubmitArgs(argv: string[], env: RemoteIo["env"]): SubmitOpt
   let wait = false;
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
-    if (arg === "--wait") wait = true;
-    else if (["--server", "--workspace", "--token", "--name", "--poll"].includes(arg)) {
+    if (arg === "--wait") {
+      if (wait) throw new CliUsageError("--wait given twice; give each flag once");
+      wait = true;
+    } else if (["--server", "--workspace", "--token", "--name", "--poll"].includes(arg)) {
+      if (flags[arg.slice(2)] !== undefined) throw new CliUsageError(`${arg} given twice; give each flag once`);
       const value = argv[++i];
       if (value === undefined || value.startsWith("--")) throw new CliUsageError(`${arg}: needs a value; ${USAGE}`);
       flags[arg.slice(2)] = value;

@@ -45,10 +45,11 @@ export function jsonErrorLocation(text: string, message: string): string {
 
 function parseThreads(argv: string[]): { file: string; threads: number } {
   let file: string | undefined;
-  let threads = 1;
+  let threads: number | undefined;
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     if (arg === "--threads") {
+      if (threads !== undefined) throw new CliUsageError("--threads given twice; give each flag once");
       const value = argv[++i];
       if (value === undefined || !/^\d+$/.test(value) || Number(value) < 1 || Number(value) > 64) throw new CliUsageError("--threads: must be an integer from 1 to 64");
       threads = Number(value);
@@ -57,7 +58,7 @@ function parseThreads(argv: string[]): { file: string; threads: number } {
     else throw new CliUsageError(`unexpected argument "${arg}"; usage: simulate <scenario.json> [--threads N] [--json]`);
   }
   if (!file) throw new CliUsageError("missing scenario file; usage: simulate <scenario.json> [--threads N] [--json]");
-  return { file, threads };
+  return { file, threads: threads ?? 1 };
 }
 
 const MEASURES: Array<[keyof SimulationResult, string]> = [
@@ -180,6 +181,7 @@ function parsePlanArgs(argv: string[]): { file: string; precision?: number; thre
   const rest: string[] = [];
   for (let i = 0; i < argv.length; i++) {
     if (argv[i] === "--precision") {
+      if (precision !== undefined) throw new CliUsageError("--precision given twice; give each flag once");
       const value = Number(argv[++i]);
       if (!(value > 0 && value < 1)) throw new CliUsageError("--precision: must be a number between 0 and 1 (relative half-width, e.g. 0.05)");
       precision = value;
