@@ -44,6 +44,12 @@ export function ReviewPanel({
   const [body, setBody] = useState("");
   const [pending, setPending] = useState<string | null>(null);
   const [error, setError] = useState<{ message: string; field?: string } | null>(null);
+  // Comments saved from this panel, shown until the page's own list (refreshed from the server) has them: the
+  // panel must not depend on when, or whether, the refresh arrives.
+  const [saved, setSaved] = useState<ReviewEntry[]>([]);
+  const shown = [...comments, ...saved.filter((entry) => !comments.some((c) => c.id === entry.id))];
+  const lastSavedDecision = saved.filter((entry) => entry.decision && !comments.some((c) => c.id === entry.id)).at(-1)?.decision;
+  const shownStatus = lastSavedDecision ?? status;
   const send = async (decision?: "approved" | "changes-requested") => {
     setPending(decision ?? "comment");
     setError(null);
@@ -55,23 +61,24 @@ export function ReviewPanel({
     }
     toast.success(result.message ?? "Saved.");
     setBody("");
+    if (result.data) setSaved((list) => [...list, result.data!.entry]);
     client.invalidateQueries({ queryKey: queryKeys.workspace(workspace) });
     router.refresh();
   };
   return (
     <Card aria-labelledby="review-title">
-      <CardHeader actions={<ReviewBadge status={status} />}>
+      <CardHeader actions={<ReviewBadge status={shownStatus} />}>
         <CardTitle as="h2">
           <span id="review-title">Review</span>
         </CardTitle>
         <CardDescription>Comments and decisions on this {subjectType}; every decision is in the audit log with who and when.</CardDescription>
       </CardHeader>
       <CardBody className="flex flex-col gap-4">
-        {comments.length === 0 ? (
+        {shown.length === 0 ? (
           <p className="text-sm text-basin-700">No comments yet.</p>
         ) : (
           <ol className="flex flex-col gap-3" aria-label="Review comments" data-testid="review-comments">
-            {comments.map((c) => (
+            {shown.map((c) => (
               <li key={c.id} className="rounded-md border border-basin-200 p-3 text-sm">
                 <p className="text-xs text-basin-600">
                   <strong className="text-basin-900">{c.author}</strong>

@@ -58,7 +58,7 @@ export async function recordReview(db: Database, input: ReviewRecord, notify: (t
     const [comment] = await tx
       .insert(reviewComments)
       .values({ workspaceId: input.workspaceId, subjectType: input.subjectType, subjectId: input.subjectId, authorId: input.authorId, body: input.body, decision: input.decision ?? null })
-      .returning({ id: reviewComments.id });
+      .returning({ id: reviewComments.id, createdAt: reviewComments.createdAt });
     if (input.decision) {
       const table = subjects[input.subjectType];
       await tx.update(table).set({ reviewStatus: input.decision }).where(eq(table.id, input.subjectId));
@@ -72,6 +72,6 @@ export async function recordReview(db: Database, input: ReviewRecord, notify: (t
       detail: { commentId: comment.id, ...(input.decision ? { from: subject.reviewStatus, to: input.decision } : {}) },
     });
     if (input.decision && subject.submittedBy) await notify(tx, input.decision);
-    return { commentId: comment.id };
+    return { commentId: comment.id, createdAt: comment.createdAt };
   });
 }

@@ -8,9 +8,10 @@ import { guardedAction } from "@/lib/auth/guarded-action";
 import { queues } from "@/lib/jobs/contracts";
 import { reviewInputSchema } from "@/lib/schemas/review";
 import type { ActionResult } from "@/lib/schemas/validation";
+import type { ReviewEntry } from "@/components/review/review-panel";
 
 /** Comment on a run or sweep; with a decision (reviewers only) the submitter is e-mailed through the notify queue. */
-export async function submitReview(workspaceSlug: string, input: unknown): Promise<ActionResult<{ commentId: string }>> {
+export async function submitReview(workspaceSlug: string, input: unknown): Promise<ActionResult<{ entry: ReviewEntry }>> {
   const decides = !!(input as { decision?: unknown } | null)?.decision;
   return guardedAction(workspaceSlug, decides ? "review.decide" : "review.comment", reviewInputSchema, input, async (access, value) => {
     const boss = value.decision ? await getBoss() : null;
@@ -19,6 +20,8 @@ export async function submitReview(workspaceSlug: string, input: unknown): Promi
     );
     revalidatePath(`/w/${workspaceSlug}/${value.subjectType}s/${value.subjectId}`);
     const message = value.decision === "approved" ? "Approved; the submitter is told by e-mail." : value.decision ? "Changes requested; the submitter is told by e-mail." : "Comment added.";
-    return { ok: true, data: done, message };
+    // The saved comment as the panel lists it, so the panel shows it at once whatever the page refresh does.
+    const entry: ReviewEntry = { id: done.commentId, body: value.body, decision: value.decision ?? null, createdAt: done.createdAt.toISOString(), author: access.user.name ?? access.user.email };
+    return { ok: true, data: { entry }, message };
   });
 }
