@@ -1,11 +1,31 @@
 import { fitHoldingTimes, type FitOptions, type HoldingFit } from "./fit";
 import { FAMILIES, type FamilyName } from "./laws";
+import { MeasurementInputError } from "./errors";
 import { OUTCOMES } from "./mapping";
 import type { CallRecordSet, IntervalCountSet, MeasuredData } from "./records";
+import { measuredPeakedness, type MeasuredPeakedness } from "./peakedness";
 import { formatLocal } from "./timestamps";
 
 const MINUTE = 60_000;
+const HOUR = 60 * MINUTE;
 const DAY = 1440 * MINUTE;
+
+/**
+ * Plausibility of single calls (finding: one stuck record decided the busy hour). Offered traffic
+ * keeps its definition (each call's whole holding time charged to its start interval), but a
+ * call is flagged in the notes when
+ * - its holding time exceeds LONGEST_PLAUSIBLE_SECONDS (24 h; common practice, no source: a
+ *   circuit held for more than a day is usually a record that was never closed), or
+ * - it starts in a busy-hour window, holds longer than that one-hour window (so it is charged
+ *   more than the one erlang-hour a single circuit can occupy in the window), and alone makes up
+ *   at least BUSY_HOUR_SHARE_LIMIT of the busy hour's mean offered traffic (10 %; common
+ *   practice, no source).
+ * Either way the figures may rest on one record, which the user should check.
+ */
+export const LONGEST_PLAUSIBLE_SECONDS = 86_400;
+export const BUSY_HOUR_SHARE_LIMIT = 0.1;
+/** At most this many suspicious calls are named in the notes (the rest are counted). */
+const SUSPICIOUS_NAMED = 5;
 
 /**
  * Busy-hour definition used throughout: the time-consistent busy hour (ITU-T E.500), the
@@ -43,17 +63,8 @@ export interface BusyHour {
   candidates: Array<{ startMinute: number; traffic: number }>;
 }
 
-export interface Peakedness {
-  /** variance / mean of the number of calls in progress, time-weighted, within each day's busy hour */
-  value: number;
-  meanCalls: number;
-  variance: number;
-  observedHours: number;
-  /** standard error under Poisson arrivals with exponential holding: √(2m/T) (see README) */
-  standardErrorIfPoisson: number;
-  /** |Z − 1| up to this counts as Poisson: max(0.05, 2 × standardErrorIfPoisson) */
-  poissonTolerance: number;
-}
+/** variance / mean of the number of calls in progress within each day's busy hour, corrected for the window means (peakedness.ts) */
+export type Peakedness = MeasuredPeakedness;
 
 export interface DispersionOfCounts {
   /** pooled within-day variance / mean of arrival counts in windows of windowSeconds */
@@ -110,19 +121,42 @@ interface View {
   local: Float64Array;
   first: number;
   last: number;
+  /** the records giving first and last (their own offsets label the period) */
+  firstIndex: number;
+  lastIndex: number;
 }
 
 function localTimes(start: Float64Array, offset: Int16Array, keep: (i: number) => boolean): View {
   const local = new Float64Array(start.length);
   let first = Infinity;
   let last = -Infinity;
+  let firstIndex = -1;
+  let lastIndex = -1;
   for (let i = 0; i < start.length; i++) {
     local[i] = start[i] + offset[i] * MINUTE;
     if (!keep(i)) continue;
-    if (local[i] < first) first = local[i];
-    if (local[i] > last) last = local[i];
+    if (local[i] < first) [first, firstIndex] = [local[i], i];
+    if (local[i] > last) [last, lastIndex] = [local[i], i];
   }
-  return { local, first, last };
+  return { local, first, last, firstIndex, lastIndex };
+}
+
+/**
+ * The instant of a local wall-clock time (ms "as if UTC"), on the records' clock. A file has at
+ * most one UTC-offset change (records.ts); it is placed at the last whole UTC hour at or before
+ * the first record on the new offset, unless that is not after the last record on the old
+ * offset, then at that first new record. Local times whose old-offset instant falls before the
+ * change take the old offset, the rest the new one.
+ */
+function clockOf(data: MeasuredData): (localMs: number) => number {
+  const old = data.offset[0];
+  let j = 0;
+  while (j < data.count && data.offset[j] === old) j++;
+  if (j === data.count) return (localMs) => localMs - old * MINUTE;
+  const next = data.offset[j];
+  let change = Math.floor(data.start[j] / HOUR) * HOUR;
+  if (change <= data.start[j - 1]) change = data.start[j];
+  return (localMs) => (localMs - old * MINUTE < change ? localMs - old * MINUTE : localMs - next * MINUTE);
 }
 
 const dayLabel = (dayIndex: number) => new Date(dayIndex * DAY).toISOString().slice(0, 10);
@@ -143,18 +177,22 @@ function grid(view: View, intervalMinutes: number) {
   return { day0, days, perDay, width, firstInterval, lastInterval, count: days * perDay };
 }
 
-/** The period's labels (on the first record's clock) and each interval's start instant. */
+/**
+ * The period's labels (each on its own record's clock) and each interval's start instant (the
+ * local grid time on the clock in force then, see clockOf; after a daylight-saving change the
+ * instants follow the new offset).
+ */
 function periodOf(view: View, g: ReturnType<typeof grid>, data: MeasuredData): { period: Characterisation["period"]; starts: number[] } {
-  const offset = data.offset[0];
+  const instant = clockOf(data);
   return {
     period: {
-      first: formatLocal(view.first - offset * MINUTE, offset),
-      last: formatLocal(view.last - offset * MINUTE, offset),
+      first: formatLocal(data.start[view.firstIndex], data.offset[view.firstIndex]),
+      last: formatLocal(data.start[view.lastIndex], data.offset[view.lastIndex]),
       days: g.days,
-      offsetMinutes: offset,
+      offsetMinutes: data.offset[view.firstIndex],
       offsets: data.offsets,
     },
-    starts: Array.from({ length: g.count }, (_, k) => g.day0 * DAY + k * g.width - offset * MINUTE),
+    starts: Array.from({ length: g.count }, (_, k) => instant(g.day0 * DAY + k * g.width)),
   };
 }
 
@@ -190,7 +228,8 @@ function findBusyHour(meanTraffic: number[], covered: number[], g: ReturnType<ty
     candidates.push({ startMinute: s, traffic: t });
     if (t > best.traffic) best = { startMinute: s, traffic: t };
   }
-  if (candidates.length === 0) throw new Error("the measurement covers no complete clock hour");
+  if (candidates.length === 0)
+    throw new MeasurementInputError("no-data", "the measurement covers no complete clock hour, so no busy hour can be found: upload records spanning at least one whole hour (e.g. 10:00 to 11:00)");
   const days: BusyHour["days"] = [];
   const j0 = best.startMinute / intervalMinutes;
   for (let d = 0; d < g.days; d++) {
@@ -217,11 +256,13 @@ function characteriseCalls(data: CallRecordSet, options: CharacteriseOptions): C
   const intervalMinutes = options.intervalMinutes ?? 15;
   if (![5, 10, 15, 20, 30, 60].includes(intervalMinutes)) throw new Error("intervalMinutes must be 5, 10, 15, 20, 30 or 60");
   const groupIndex = options.group == null ? -1 : data.groups.indexOf(options.group);
-  if (options.group != null && groupIndex < 0) throw new Error(`no group "${options.group}" in the file`);
+  if (options.group != null && groupIndex < 0)
+    throw new MeasurementInputError("bad-mapping", `no group "${options.group}" in the file${data.hasGroup ? `; its groups are ${data.groups.slice(0, 10).map((n) => `"${n}"`).join(", ")}${data.groups.length > 10 ? ", …" : ""}` : ": it has no group column"}`, undefined, "group");
   const keep = (i: number) => groupIndex < 0 || data.group[i] === groupIndex;
   const view = localTimes(data.start, data.offset, keep);
-  if (!Number.isFinite(view.first)) throw new Error("no calls in the selection");
-  const notes: string[] = [];
+  if (!Number.isFinite(view.first)) throw new MeasurementInputError("no-data", "no calls in the selection");
+  // What reading the file noticed (e.g. rows repeating the previous one) comes first.
+  const notes: string[] = [...(data.notes ?? [])];
 
   // Mean holding time of answered calls; attempts without a holding time offer that mean.
   let answered = 0;
@@ -236,7 +277,8 @@ function characteriseCalls(data: CallRecordSet, options: CharacteriseOptions): C
     }
   }
   const meanHolding = answered ? holdingSum / answered : 0;
-  if (answered === 0) throw new Error("no answered calls: holding times cannot be measured");
+  if (answered === 0)
+    throw new MeasurementInputError("no-data", "the file has no answered calls, so holding times and offered traffic cannot be measured: every record is blocked or abandoned", undefined, "outcome");
   if (data.hasOutcome && answered < outcomeCounts.reduce((a, b) => a + b, 0))
     notes.push(
       "Offered traffic counts each blocked or abandoned attempt at the mean holding time of answered calls; calls in progress, peakedness and the holding-time fits use answered calls only, so much blocking makes the measured peakedness too low.",
@@ -277,6 +319,9 @@ function characteriseCalls(data: CallRecordSet, options: CharacteriseOptions): C
   if (data.offsets.length > 1) notes.push("The file changes UTC offset once (daylight saving): clock-time profiles use each record's own wall clock.");
 
   const busy = busyHourCalls(data, keep, busyHour, meanHolding);
+  notes.push(...suspiciousCalls(data, keep, busyHour));
+  if (busy.interarrivals > 1 && busy.interarrivalScv === null)
+    notes.push("Every busy-hour attempt starts at the same instant as the one before: the interarrival scv is undefined (all gaps are 0), and the timestamps may be truncated.");
   progress(0.2, "busy hour");
 
   const durations: number[] = [];
@@ -313,6 +358,34 @@ function characteriseCalls(data: CallRecordSet, options: CharacteriseOptions): C
   };
 }
 
+/** Notes naming calls whose holding time is implausibly long or alone decides the busy hour (see LONGEST_PLAUSIBLE_SECONDS). */
+function suspiciousCalls(data: CallRecordSet, keep: (i: number) => boolean, bh: BusyHour): string[] {
+  const windowDays = new Set(bh.days.map(({ day }) => Math.round(Date.parse(`${day}T00:00:00Z`) / DAY)));
+  const found: Array<{ i: number; why: string }> = [];
+  for (let i = 0; i < data.count; i++) {
+    if (!keep(i) || data.outcome[i] !== 0) continue;
+    const seconds = data.duration[i];
+    if (seconds <= 3600) continue;
+    const reasons: string[] = [];
+    if (seconds > LONGEST_PLAUSIBLE_SECONDS) reasons.push("is longer than 24 h");
+    const local = data.start[i] + data.offset[i] * MINUTE;
+    const day = Math.floor(local / DAY);
+    const minute = (local - day * DAY) / MINUTE;
+    if (windowDays.has(day) && minute >= bh.startMinute && minute < bh.startMinute + 60 && bh.meanTraffic > 0) {
+      // its whole holding time is charged to this day's window; the busy hour averages the days
+      const share = seconds / 3600 / bh.days.length / bh.meanTraffic;
+      if (share >= BUSY_HOUR_SHARE_LIMIT) reasons.push(`alone makes up ${Math.round(share * 100)} % of the busy hour's offered traffic (${bh.label})`);
+    }
+    if (reasons.length) found.push({ i, why: reasons.join(" and ") });
+  }
+  const notes = found.slice(0, SUSPICIOUS_NAMED).map(({ i, why }) => {
+    const seconds = data.duration[i];
+    return `Check the call starting ${formatLocal(data.start[i], data.offset[i])}: its holding time of ${seconds < 1e9 ? Math.round(seconds) : seconds.toExponential(3)} s (${seconds / 3600 < 1e6 ? (seconds / 3600).toFixed(1) : (seconds / 3600).toExponential(3)} h) ${why}. Offered traffic charges a call's whole holding time to the interval it starts in, so one such record (for example a call that was never closed) can decide the busy hour; correct or remove it if it is wrong.`;
+  });
+  if (found.length > SUSPICIOUS_NAMED) notes.push(`${found.length - SUSPICIOUS_NAMED} more calls are implausibly long or alone decide much of the busy hour; check the longest holding times in the file.`);
+  return notes;
+}
+
 function countWhere(a: Uint16Array, v: number): number {
   let n = 0;
   for (const x of a) if (x === v) n++;
@@ -333,17 +406,18 @@ function busyHourCalls(data: CallRecordSet, keep: (i: number) => boolean, bh: Bu
   let integralN = 0;
   let withinSq = 0;
   let observed = 0;
+  const heldInWindows: number[] = [];
   let countSum = 0;
   let countSq = 0;
   let countWindows = 0;
   let countDays = 0;
   const simultaneous: SimultaneousCalls[] = [];
+  const instant = clockOf(data);
   for (const { day } of bh.days) {
     const d = Math.round(Date.parse(`${day}T00:00:00Z`) / DAY);
     const w0Local = d * DAY + bh.startMinute * MINUTE;
-    // the window's wall clock: the offset of the record nearest to it (one daylight-saving change at most)
-    const near = Math.min(lowerBound(data.start, w0Local - data.offset[0] * MINUTE), data.count - 1);
-    const w0 = w0Local - data.offset[near] * MINUTE;
+    // the window's wall clock: the offset in force then (one daylight-saving change at most)
+    const w0 = instant(w0Local);
     const w1 = w0 + windowMs;
     const events: Array<[number, number]> = [];
     const counts = new Float64Array(bins);
@@ -364,6 +438,7 @@ function busyHourCalls(data: CallRecordSet, keep: (i: number) => boolean, bh: Bu
         previous = t;
       }
       if (data.outcome[i] !== 0) continue;
+      if (t >= w0) heldInWindows.push(data.duration[i]);
       const end = t + data.duration[i] * 1000;
       if (end <= w0) continue;
       events.push([Math.max(t, w0), 1], [Math.min(end, w1), -1]);
@@ -404,12 +479,10 @@ function busyHourCalls(data: CallRecordSet, keep: (i: number) => boolean, bh: Bu
     countDays++;
   }
   const hours = observed / 3600;
-  const meanCalls = integralN / observed;
-  const variance = withinSq / observed;
-  const se = Math.sqrt((2 * meanHolding) / observed);
   const countMean = countSum / countWindows;
   const countVar = countSq / Math.max(1, countWindows - countDays);
-  const scv = gaps > 1 ? (gapSq / gaps - (gapSum / gaps) ** 2) * (gaps / (gaps - 1)) / (gapSum / gaps) ** 2 : null;
+  // all gaps 0 (same instant): the scv's denominator is 0, so it is undefined (null), not NaN
+  const scv = gaps > 1 && gapSum > 0 ? (gapSq / gaps - (gapSum / gaps) ** 2) * (gaps / (gaps - 1)) / (gapSum / gaps) ** 2 : null;
   return {
     attempts,
     ratePerHour: attempts / hours,
@@ -417,10 +490,7 @@ function busyHourCalls(data: CallRecordSet, keep: (i: number) => boolean, bh: Bu
     meanHoldingSeconds: meanHolding,
     interarrivalScv: scv,
     interarrivals: gaps,
-    peakedness:
-      meanCalls > 0
-        ? { value: variance / meanCalls, meanCalls, variance, observedHours: hours, standardErrorIfPoisson: se, poissonTolerance: Math.max(0.05, 2 * se) }
-        : null,
+    peakedness: measuredPeakedness({ integralN, withinSquares: withinSq, observedSeconds: observed, windowSeconds: windowMs / 1000, holdingSeconds: heldInWindows }),
     dispersion:
       countMean > 0 && countWindows - countDays > 0
         ? { value: countVar / countMean, windowSeconds: tau, windows: countWindows, standardErrorIfPoisson: Math.sqrt(2 / (countWindows - countDays)) }
@@ -498,7 +568,7 @@ function characteriseCounts(data: IntervalCountSet, options: CharacteriseOptions
   const h = data.meanHoldingSeconds;
   const widthSeconds = intervalMinutes * 60;
   const offered = h ? arrivals.map((a) => (a * h) / widthSeconds) : null;
-  const notes: string[] = [];
+  const notes: string[] = [...(data.notes ?? [])];
   let missing = 0;
   for (let k = g.firstInterval; k <= g.lastInterval; k++) if (!present[k]) missing++;
   if (missing) notes.push(`${missing} interval${missing === 1 ? "" : "s"} inside the period have no row and count as zero attempts.`);

@@ -8,8 +8,9 @@ const DELIMITERS: Delimiter[] = [",", ";", "\t", "|"];
  * Incremental CSV reader on papaparse's own parser (Papa.Parser, the engine behind Papa.parse's
  * streaming mode), fed text chunk by chunk so a large file never sits in memory as rows.
  * Each row comes with the number of the line it starts on (1-based); blank lines are skipped.
- * The delimiter is taken from the mapping or guessed from the header line; the line ending
- * from the first one met.
+ * The delimiter is taken from the mapping or guessed from the header line; the line ending that
+ * ends rows from the first one met. Lines are counted as an editor shows them: CRLF, a bare LF
+ * and a bare CR each end one, so a quoted line break of another style than the file's counts too.
  */
 export class CsvRowReader {
   private parser: InstanceType<typeof Papa.Parser> | null = null;
@@ -21,6 +22,8 @@ export class CsvRowReader {
   private current = "";
   private currentBase = 0;
   private lastCursor = 0;
+  /** whether the text before the current row ended with CR (a CRLF cut between two rows is one break) */
+  private endsWithCR = false;
   private stopped = false;
   delimiter: Delimiter | null;
 
@@ -83,7 +86,8 @@ export class CsvRowReader {
     const end = results.meta.cursor;
     const rowText = this.current.slice(this.lastCursor - this.currentBase, end - this.currentBase);
     const line = this.line;
-    this.line += countOf(rowText, this.newline);
+    this.line += lineBreaks(rowText, this.endsWithCR);
+    if (rowText.length > 0) this.endsWithCR = rowText.endsWith("\r");
     this.lastCursor = end;
     const quoteError = results.errors.find((e) => e.type === "Quotes");
     if (quoteError) throw new MeasurementInputError("unclosed-quote", `line ${line}: a quoted field is never closed (missing ")`, line);
@@ -93,9 +97,14 @@ export class CsvRowReader {
   }
 }
 
-function countOf(text: string, needle: string): number {
+/** Line breaks in `text`: CRLF, LF and CR each count once; an LF right after a CR that ended the text before is not counted again. */
+export function lineBreaks(text: string, afterCR = false): number {
   let n = 0;
-  for (let i = text.indexOf(needle); i >= 0; i = text.indexOf(needle, i + needle.length)) n++;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 13) n++;
+    else if (c === 10 && !(i === 0 ? afterCR : text.charCodeAt(i - 1) === 13)) n++;
+  }
   return n;
 }
 

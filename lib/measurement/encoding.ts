@@ -13,6 +13,8 @@ export class Utf8Decoder {
   private lo = 0x80;
   private hi = 0xbf;
   private line = 1;
+  /** the last byte was CR: an LF after it ends the same line */
+  private afterCR = false;
   private first = true;
   bytes = 0;
 
@@ -45,8 +47,9 @@ export class Utf8Decoder {
       this.hi = 0xbf;
       return;
     }
-    if (b === 0x0a) this.line++;
-    else if (b === 0x00) throw encodingError(this.line, "contains a NUL byte: the file looks like UTF-16 or binary data");
+    if (b === 0x0d || (b === 0x0a && !this.afterCR)) this.line++;
+    this.afterCR = b === 0x0d;
+    if (b === 0x00) throw encodingError(this.line, "contains a NUL byte: the file looks like UTF-16 or binary data");
     if (b < 0x80) return;
     if (b >= 0xc2 && b <= 0xdf) this.need = 1;
     else if (b === 0xe0) [this.need, this.lo] = [2, 0xa0];
@@ -75,6 +78,7 @@ export function tooLarge(maxBytes: number): MeasurementInputError {
   return new MeasurementInputError("file-too-large", `the file is larger than the limit of ${formatBytes(maxBytes)}; split it or upload interval counts instead`);
 }
 
+/** Binary units, named as such (IEC 80000-13): 4 000 000 bytes is "3.81 MiB", 2 048 bytes "2 KiB". */
 export function formatBytes(n: number): string {
-  return n >= 1024 * 1024 ? `${Number((n / 1024 / 1024).toPrecision(3))} MB` : n >= 1024 ? `${Number((n / 1024).toPrecision(3))} kB` : `${n} bytes`;
+  return n >= 1024 * 1024 ? `${Number((n / 1024 / 1024).toPrecision(3))} MiB` : n >= 1024 ? `${Number((n / 1024).toPrecision(3))} KiB` : `${n} bytes`;
 }

@@ -31,6 +31,7 @@ export type MeasurementErrorCode =
   | "bad-timestamp"
   | "mixed-time-zones"
   | "unsorted"
+  | "clock-change"
   | "duplicate-row"
   | "bad-outcome"
   | "too-many-groups"

@@ -9,11 +9,17 @@ import { FAMILIES, FAMILY_NAMES, summarise, type FamilyName, type Parameters } f
  * estimated from the same sample it is far too large (conservative: Lilliefors 1967, Stephens
  * 1974), so it is not reported. Instead each family gets a parametric-bootstrap p-value
  * (Stute, Manteiga & Quindimil 1993; Babu & Rao 2004): B samples drawn from the fitted law,
- * refitted, and p = (1 + #{D_b ≥ D}) / (B + 1), with the same for A². The draws are rounded to
- * the resolution the durations are written with, so ties in the data do not count against a law.
- * For large files the bootstrap samples have m = min(n, maxSample) values and √m·D_b is compared
- * with √n·D (A² needs no scaling): both converge in law as the size grows (Durbin 1973,
- * "Weak convergence of the sample distribution function when parameters are estimated").
+ * refitted, and p = (1 + #{D_b ≥ D}) / (B + 1), with the same for A². The bootstrap samples have
+ * m = min(n, maxSample) values.
+ *  - Continuous data (no recording grid found): √m·D_b is compared with √n·D (A² needs no
+ *    scaling): both converge in law as the size grows (Durbin 1973, "Weak convergence of the
+ *    sample distribution function when parameters are estimated").
+ *  - Durations recorded on a grid δ (whole seconds, tenths, ...; writtenResolution): the draws are
+ *    rounded to δ, and zeros dropped as the data's are, so the bootstrap law is the law of the
+ *    recorded values. Rounding moves D by about f(x)·δ/2 whatever the size, so √m·D_b and √n·D
+ *    no longer share a limit; when m < n the observed statistics are therefore taken on a seeded
+ *    random subsample of m values (without replacement, parameters refitted on it, as in each
+ *    bootstrap sample), so the observed and bootstrap statistics are of the same size and law.
  * The random stream is seeded, so the p-values are reproducible.
  */
 export interface FitOptions {
@@ -52,20 +58,48 @@ export interface HoldingFit {
   pValueMethod: string;
 }
 
-/** Durations are written to a grid when every value is a multiple of it (tested coarsest first). */
-export function writtenResolution(values: Float64Array): number {
-  for (const r of [60, 10, 1, 0.1, 0.01, 0.001]) {
-    let ok = true;
-    for (const x of values) {
-      const q = x / r;
-      if (Math.abs(q - Math.round(q)) > 1e-6 * Math.max(1, q)) {
-        ok = false;
-        break;
-      }
-    }
-    if (ok) return r;
+/** every value is a whole multiple of r (to rounding error in the value's last digits) */
+function onGrid(values: Float64Array, r: number): boolean {
+  for (const x of values) {
+    const q = x / r;
+    if (Math.abs(q - Math.round(q)) > 1e-6 * Math.max(1, q)) return false;
   }
-  return 0;
+  return true;
+}
+
+/**
+ * The resolution durations are recorded at: the coarsest δ with every value a whole multiple of δ.
+ * Decimal grids (60, 10, 1, 0.1, 0.01, 0.001 s) are tried coarsest first. Any other grid (5 s, 0.5 s,
+ * a tenth of a minute, ...) shows as ties: with at least 20 distinct values, the smallest gap
+ * between distinct values divided by k = 1 … 12, if every value is a multiple of it and it is
+ * coarser than the decimal grid and at least 1e-5 of the largest value (chance alignment of 20
+ * continuous values has probability below 0.2²⁰). 0: no grid.
+ */
+export function writtenResolution(values: Float64Array): number {
+  let decimal = 0;
+  for (const r of [60, 10, 1, 0.1, 0.01, 0.001]) {
+    if (onGrid(values, r)) {
+      decimal = r;
+      break;
+    }
+  }
+  const sorted = values.slice().sort();
+  const largest = sorted[sorted.length - 1] ?? 0;
+  let distinct = 0;
+  let gap = Infinity;
+  for (let i = 0; i < sorted.length; i++) {
+    if (i > 0 && sorted[i] - sorted[i - 1] <= 1e-9 * Math.max(1, sorted[i])) continue;
+    distinct++;
+    if (i > 0) gap = Math.min(gap, sorted[i] - sorted[i - 1]);
+  }
+  if (distinct >= 20 && Number.isFinite(gap)) {
+    for (let k = 1; k <= 12; k++) {
+      const r = gap / k;
+      if (r <= decimal * (1 + 1e-9) || r < 1e-5 * largest) break;
+      if (onGrid(values, r)) return r;
+    }
+  }
+  return decimal;
 }
 
 /** D = max_i max(i/n − F(x_(i)), F(x_(i)) − (i−1)/n) on a sorted sample. */
@@ -107,6 +141,19 @@ export function fitHoldingTimes(durations: ArrayLike<number>, options: FitOption
   const resolution = writtenResolution(sorted);
   const n = sorted.length;
   const m = Math.min(n, maxSample);
+  // gridded data with m < n: the observed statistics on a subsample of m values (partial Fisher–Yates, seeded)
+  const subsampled = resolution > 0 && m < n;
+  let observed = sorted;
+  if (subsampled) {
+    const pick = seedrandom.alea(`${seed}:subsample`);
+    const pool = positive.slice();
+    for (let i = 0; i < m; i++) {
+      const j = i + Math.floor(pick() * (n - i));
+      [pool[i], pool[j]] = [pool[j], pool[i]];
+    }
+    observed = pool.slice(0, m).sort();
+  }
+  const observedSummary = subsampled ? summarise(observed) : summary;
   const fits = FAMILY_NAMES.map((name): FamilyFit => {
     const family = FAMILIES[name];
     const parameters = family.fit(summary);
@@ -126,7 +173,14 @@ export function fitHoldingTimes(durations: ArrayLike<number>, options: FitOption
       };
       let ksAbove = 0;
       let adAbove = 0;
-      const target = Math.sqrt(n) * ks;
+      let target = Math.sqrt(n) * ks;
+      let adTarget = ad;
+      if (subsampled) {
+        const q = family.fit(observedSummary);
+        const oc = (x: number) => family.cdf(q, x);
+        target = Math.sqrt(m) * ksStatistic(observed, oc);
+        adTarget = adStatistic(observed, oc, (x) => family.survival(q, x));
+      }
       for (let b = 0; b < replicates; b++) {
         const draw = new Float64Array(m);
         let k = 0;
@@ -139,7 +193,7 @@ export function fitHoldingTimes(durations: ArrayLike<number>, options: FitOption
         const p = family.fit(s);
         const bc = (x: number) => family.cdf(p, x);
         if (Math.sqrt(m) * ksStatistic(draw, bc) >= target) ksAbove++;
-        if (adStatistic(draw, bc, (x) => family.survival(p, x)) >= ad) adAbove++;
+        if (adStatistic(draw, bc, (x) => family.survival(p, x)) >= adTarget) adAbove++;
       }
       ksPValue = (1 + ksAbove) / (replicates + 1);
       adPValue = (1 + adAbove) / (replicates + 1);
@@ -167,7 +221,9 @@ export function fitHoldingTimes(durations: ArrayLike<number>, options: FitOption
     fits,
     pValueMethod:
       replicates > 0
-        ? `parametric bootstrap, ${replicates} samples of ${m} values${m < n ? ` (√m·D compared with √n·D)` : ""}, draws rounded to ${resolution || "no"} resolution, seed "${seed}"; the classical Kolmogorov p-value is not valid with estimated parameters`
+        ? `parametric bootstrap, ${replicates} samples of ${m} values${
+            subsampled ? ` compared with a random subsample of ${m} of the ${n} values` : m < n ? ` (√m·D compared with √n·D)` : ""
+          }, draws rounded to ${resolution ? `the recording resolution ${resolution}` : "no resolution"}, seed "${seed}"; the classical Kolmogorov p-value is not valid with estimated parameters`
         : "not computed",
   };
 }

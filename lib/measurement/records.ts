@@ -21,6 +21,8 @@ export interface CallRecordSet {
   hasGroup: boolean;
   /** the distinct UTC offsets met, in order */
   offsets: number[];
+  /** what the reader accepted but the user should know (e.g. rows repeating an earlier row), as sentences */
+  notes?: string[];
 }
 
 /** Per-interval counts, sorted by interval start. */
@@ -35,6 +37,7 @@ export interface IntervalCountSet {
   intervalMinutes: number;
   meanHoldingSeconds: number | null;
   offsets: number[];
+  notes?: string[];
 }
 
 export type MeasuredData = CallRecordSet | IntervalCountSet;
@@ -43,10 +46,57 @@ const DURATION_FACTOR = { seconds: 1, minutes: 60, milliseconds: 0.001 } as cons
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 const CLOCK_DURATION = /^(?:(\d+):)?(\d{1,2}):(\d{2}(?:\.\d+)?)$/;
 
+const NON_FINITE = /^[+-]?(inf|infinity|nan)$/i;
+/** "120,5", "1.234,5", "1,500": a comma between digits, read neither as a decimal mark nor as a thousands separator */
+const COMMA_NUMBER = /^[+-]?[\d.]*\d,\d+$/;
+
+/**
+ * A plain decimal number (optional sign, point, exponent), finite. A comma between digits is
+ * refused with a hint rather than read: "1,500" may be 1.5 or 1500, and a wrong guess would
+ * change a value a thousandfold without a word (as day-first dates are refused, not guessed).
+ */
 function parseNumber(text: string, line: number, column: string): number {
   if (text === "") throw cellError("not-a-number", line, column, "is empty; a number is needed");
-  if (NUMBER.test(text)) return Number(text);
+  if (NUMBER.test(text)) {
+    const n = Number(text);
+    if (!Number.isFinite(n)) throw cellError("not-a-number", line, column, `"${text}" is not a finite number (too large)`);
+    return n;
+  }
+  if (NON_FINITE.test(text)) throw cellError("not-a-number", line, column, `"${text}" is not a finite number`);
+  if (COMMA_NUMBER.test(text)) {
+    const example = text.includes(".") ? "" : ` (${text.replace(",", ".")})`;
+    throw cellError(
+      "not-a-number",
+      line,
+      column,
+      `"${text}" is not a number: a comma is read neither as a decimal mark nor as a thousands separator; write numbers with a decimal point${example} and no thousands separators`,
+    );
+  }
   throw cellError("not-a-number", line, column, `"${text}" is not a number`);
+}
+
+/** Whether the digits before any exponent are all zero ("-0", "-0.00", "-0e3"), so a minus sign means nothing. */
+const isZeroText = (text: string) => !/[1-9]/.test(text.replace(/[eE].*$/, ""));
+
+/** Clocks go back at most an hour (30 minutes on Lord Howe Island), between 23:00 and 04:00 local time wherever daylight saving ends. */
+const NIGHT_FROM = 23 * 60;
+const NIGHT_TO = 4 * 60;
+
+/**
+ * Whether a start earlier than the previous row's in a file without UTC offsets is likely the end
+ * of daylight saving rather than a sorting error: the step back is at most one hour (the clock
+ * repeats one hour, so consecutive calls step back by an hour less the time between them) and
+ * both wall-clock times lie between 23:00 and 04:00 (where the clock changes: 24:00, 01:00, 02:00
+ * or 03:00 local). `offsetMinutes` is the fixed offset the file's times were read with.
+ */
+export function looksLikeClocksGoingBack(previousMs: number, currentMs: number, offsetMinutes: number): boolean {
+  const back = previousMs - currentMs;
+  if (back <= 0 || back > 3_600_000) return false;
+  const night = (ms: number) => {
+    const minute = (((ms / 60_000 + offsetMinutes) % 1440) + 1440) % 1440;
+    return minute >= NIGHT_FROM || minute < NIGHT_TO;
+  };
+  return night(previousMs) && night(currentMs);
 }
 
 /** Growable Float64Array-backed column. */
@@ -82,6 +132,9 @@ export class RecordBuilder {
   private readonly offsets: number[] = [];
   private offsetLines: number[] = [];
   private previous: { epochMs: number; line: number; text: string } | null = null;
+  /** call records repeating an earlier row at the same start, and the first such pair */
+  private repeats = 0;
+  private firstRepeat: { line: number; of: number } | null = null;
   /** rows sharing the previous start instant: key → line, to find exact repeats */
   private sameStart = new Map<string, number>();
   private readonly start = f64();
@@ -147,8 +200,17 @@ export class RecordBuilder {
     if (typeof t === "string") throw cellError("bad-timestamp", line, column, t);
     this.checkZone(t, line, column);
     if (this.previous) {
-      if (t.epochMs < this.previous.epochMs)
-        throw cellError("unsorted", line, column, `${text} is earlier than ${this.previous.text} on line ${this.previous.line}; sort the file by ${column}`);
+      if (t.epochMs < this.previous.epochMs) {
+        const earlier = `${text} is earlier than ${this.previous.text} on line ${this.previous.line}`;
+        if (!t.explicit && looksLikeClocksGoingBack(this.previous.epochMs, t.epochMs, t.offsetMinutes))
+          throw cellError(
+            "clock-change",
+            line,
+            column,
+            `${earlier}: a step back of at most an hour at night looks like the clocks going back at the end of daylight saving, which times without a UTC offset cannot show; export the ${column} times with their UTC offset (such as +01:00) or in UTC (Z). If the file is only out of order, sort it by ${column}`,
+          );
+        throw cellError("unsorted", line, column, `${earlier}; sort the file by ${column}`);
+      }
       if (t.epochMs > this.previous.epochMs) this.sameStart.clear();
     }
     this.previous = { epochMs: t.epochMs, line, text };
@@ -185,10 +247,29 @@ export class RecordBuilder {
     return parseNumber(this.cell(fields, field), line, this.columnName(field));
   }
 
+  /**
+   * A call record with the same start and the same values in every mapped column as an earlier
+   * one is kept: with whole-second times, distinct calls at busy-hour rates share a start and a
+   * holding time quite often (at 2 400 calls/h, tens a day). They are counted for a note.
+   */
   private repeatCheck(key: string, line: number): void {
     const first = this.sameStart.get(key);
-    if (first !== undefined) throw new MeasurementInputError("duplicate-row", `line ${line}: repeats line ${first} (same values in every mapped column)`, line);
-    this.sameStart.set(key, line);
+    if (first === undefined) this.sameStart.set(key, line);
+    else {
+      this.repeats++;
+      this.firstRepeat ??= { line, of: first };
+    }
+  }
+
+  private readNotes(): string[] {
+    if (!this.firstRepeat) return [];
+    const n = this.repeats;
+    const share = (100 * n) / this.rows;
+    return [
+      `${n} row${n === 1 ? " repeats" : "s repeat"} an earlier row with the same start in every mapped column (${share < 0.1 ? "under 0.1" : share.toPrecision(2)} % of the rows; the first is line ${this.firstRepeat.line}, repeating line ${this.firstRepeat.of}). ` +
+        "They are kept as separate calls, since with times in whole seconds distinct calls often share a start and a holding time. " +
+        "If the export really wrote some calls twice, remove the repeated rows and upload the file again.",
+    ];
   }
 
   private callRecord(m: CallRecordMapping, fields: string[], line: number): void {
@@ -225,14 +306,15 @@ export class RecordBuilder {
 
   private duration(text: string, unit: CallRecordMapping["durationUnit"], line: number): number {
     const column = this.columnName("duration");
-    const clock = CLOCK_DURATION.exec(text);
+    const minus = text.startsWith("-");
+    const clock = CLOCK_DURATION.exec(minus ? text.slice(1) : text);
     let seconds: number;
     if (clock) seconds = Number(clock[1] ?? 0) * 3600 + Number(clock[2]) * 60 + Number(clock[3]);
-    else if (text.startsWith("-") && (NUMBER.test(text) || CLOCK_DURATION.test(text.slice(1))))
-      throw cellError("negative-duration", line, column, `${text} is negative; a holding time is >= 0`);
     else seconds = parseNumber(text, line, column) * DURATION_FACTOR[unit];
-    if (seconds < 0) throw cellError("negative-duration", line, column, `${text} is negative; a holding time is >= 0`);
-    return seconds;
+    // "-0", "-0.0", "-0:00" are zero; any other minus sign is a negative holding time
+    if (minus && (clock ? seconds !== 0 : !isZeroText(text))) throw cellError("negative-duration", line, column, `${text} is negative; a holding time is >= 0`);
+    if (!Number.isFinite(seconds)) throw cellError("not-a-number", line, column, `"${text}" is not a finite number (too large)`);
+    return Math.abs(seconds);
   }
 
   private intervalCount(m: IntervalCountMapping, fields: string[], line: number): void {
@@ -259,14 +341,14 @@ export class RecordBuilder {
   private count(fields: string[], field: string, line: number): number {
     const n = this.number(fields, field, line);
     if (!Number.isInteger(n) || n < 0) throw cellError("bad-count", line, this.columnName(field), `${this.cell(fields, field)} is not a whole number >= 0`);
-    return n;
+    return n + 0; // -0 is 0
   }
 
   /** The finished data set; throws when the file had no header or no data rows. */
   finish(): MeasuredData {
     if (!this.indices) throw new MeasurementInputError("empty-file", "the file is empty: no header line and no rows");
     if (this.rows === 0) throw new MeasurementInputError("no-data", "line 2: the file has a header but no data rows", 2);
-    const common = { count: this.start.length, start: this.start.finish(), offset: this.offset.finish(), offsets: [...this.offsets] };
+    const common = { count: this.start.length, start: this.start.finish(), offset: this.offset.finish(), offsets: [...this.offsets], notes: this.readNotes() };
     if (this.mapping.kind === "call-records")
       return {
         kind: "call-records",

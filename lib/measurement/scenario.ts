@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { minServersForBlocking } from "../teletraffic/erlang-b";
+import { MAX_TRAFFIC, minServersForBlocking } from "../teletraffic/erlang-b";
 import { parseScenario, type Law, type Scenario } from "../simulation/scenario";
 import type { Characterisation } from "./characterise";
 import { MeasurementInputError } from "./errors";
@@ -142,6 +142,15 @@ export function makeScenario(c: Characterisation, optionsInput: MakeScenarioOpti
       shape = shapeOfFamily(chosen, fit.parameters);
     }
     holdingName = chosen;
+  } else if (c.kind === "call-records") {
+    throw new MeasurementInputError(
+      "no-data",
+      c.meanHoldingSeconds
+        ? "the call records have only one answered call with a positive holding time: a holding-time law needs at least two"
+        : "the call records have no positive holding times (every answered call lasts 0 s), so no holding-time law can be fitted and no traffic is offered: check the duration column and its unit",
+      undefined,
+      "duration",
+    );
   } else if (c.meanHoldingSeconds) {
     holdingLaw = { law: "exponential", mean: c.meanHoldingSeconds };
     shape = shapeOfFamily("exponential", { mean: c.meanHoldingSeconds });
@@ -150,8 +159,23 @@ export function makeScenario(c: Characterisation, optionsInput: MakeScenarioOpti
   } else {
     throw new MeasurementInputError("bad-mapping", "a scenario needs a holding time: upload call records, or give the mean holding time (meanHoldingSeconds) with the interval counts", undefined, "meanHoldingSeconds");
   }
-  holdingLaw = scaleLaw(holdingLaw, 1 / 60);
-  shape = scaleShape(shape, 1 / 60);
+  const busyTraffic = c.busy.offeredTraffic ?? 0;
+  if (!(c.busy.ratePerHour > 0 && busyTraffic > 0))
+    throw new MeasurementInputError("no-data", "no traffic was measured: the busy hour, the busiest hour of the file, has no attempts or no offered traffic (every count is 0), so there is nothing to model");
+  // Offered traffic is the measured quantity; the fitted family only shapes the holding law. The
+  // law is rescaled (shape kept) to the busy hour's mean holding time, offered traffic / attempt
+  // rate, so that the scenario offers exactly the measured busy-hour traffic (the fit's mean is
+  // that of the whole period, and the fitted family's mean differs from the sample mean).
+  const busyMeanSeconds = (busyTraffic * 3600) / c.busy.ratePerHour;
+  const fittedMeanSeconds = shape.mean;
+  // equal up to rounding (interval counts with a given mean): keep the law exactly as it is
+  const rescale = Math.abs(busyMeanSeconds / fittedMeanSeconds - 1) > 1e-9 ? busyMeanSeconds / fittedMeanSeconds : 1;
+  if (rescale !== 1)
+    notes.push(
+      `The holding law keeps the ${holdingName === "empirical" ? "empirical law's" : `fitted ${holdingName} law's`} shape, with its mean set to the busy hour's measured mean holding time, ${busyMeanSeconds.toFixed(1)} s (offered traffic / attempt rate), instead of ${fittedMeanSeconds.toFixed(1)} s, so the scenario offers the measured ${busyTraffic.toFixed(2)} erlangs.`,
+    );
+  holdingLaw = scaleLaw(holdingLaw, rescale / 60);
+  shape = scaleShape(shape, rescale / 60);
   const m = shape.mean;
 
   const rate = c.busy.ratePerHour / 60;
@@ -195,7 +219,12 @@ export function makeScenario(c: Characterisation, optionsInput: MakeScenarioOpti
             ? "on-off (interrupted Poisson) stream matched to the busy-hour rate, the peakedness with this holding law, and the interarrival scv"
             : "on-off stream matched to the busy-hour rate and the peakedness; the interarrival scv could not be matched as well, so the on-off cycle rate is set to 1/(mean holding time)",
         };
-        if (!matchedScv) notes.push(`The measured interarrival scv (${c.busy.interarrivalScv?.toFixed(2) ?? "none"}) is too low for an on-off stream with this peakedness; only rate and peakedness are matched.`);
+        if (!matchedScv)
+          notes.push(
+            c.busy.interarrivalScv === null
+              ? "The interarrival scv is undefined (fewer than two gaps between busy-hour attempts, or every gap is 0), so only rate and peakedness are matched."
+              : `The measured interarrival scv (${c.busy.interarrivalScv.toFixed(2)}) is too low for an on-off stream with this peakedness; only rate and peakedness are matched.`,
+          );
       } else {
         // Counts: match the index of dispersion over the count window with the cycle rate a = 1/m:
         // Var N(T)/(λT) = 1 + 2 λ(1 − p) [1/a − (1 − e^{−aT})/(a² T)] for the on-off stream.
@@ -234,6 +263,13 @@ export function makeScenario(c: Characterisation, optionsInput: MakeScenarioOpti
     }
   }
 
+  if (offeredTraffic > MAX_TRAFFIC)
+    throw new MeasurementInputError(
+      "no-data",
+      `the busy hour's measured offered traffic, ${offeredTraffic.toExponential(3)} erlangs, is beyond what can be sized (at most ${MAX_TRAFFIC} erlangs): check the holding times the characterisation's notes name`,
+      undefined,
+      "duration",
+    );
   const sizing = minServersForBlocking({ traffic: offeredTraffic, target: options.targetBlocking });
   const run =
     options.source === "daily-profile"

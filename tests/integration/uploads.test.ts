@@ -100,7 +100,7 @@ describe("bad files: 400 naming the line, nothing stored", () => {
     ["an offset on some rows only", () => multipart(header + row(0) + row(5, "60", "")), "mixed-time-zones", /line 3/],
     ["two unrelated offsets", () => multipart(header + row(0) + row(5, "60", "-05:00")), "mixed-time-zones", /line 3/],
     ["unsorted rows", () => multipart(header + row(5) + row(0)), "unsorted", /line 3.*sort the file/],
-    ["a duplicate row", () => multipart(header + row(0) + row(0)), "duplicate-row", /line 3: repeats line 2/],
+    ["a repeated interval start", () => multipart("interval,attempts\n2026-01-12T10:00:00Z,5\n2026-01-12T10:00:00Z,6\n", { kind: "interval-counts", intervalStart: "interval", attempts: "attempts", intervalMinutes: 15 }), "duplicate-row", /line 3, column "interval": repeats the interval start of line 2/],
     ["an empty file", () => multipart(""), "empty-file", /empty/],
     ["a header without rows", () => multipart(header), "no-data", /no data|no rows|only/i],
     ["an invalid UTF-8 byte", () => multipart(new Uint8Array([...enc(header + row(0)), 0x32, 0x30, 0xff, 0x0a])), "wrong-encoding", /line 3/],
@@ -238,18 +238,61 @@ describe("the demo file, end to end", () => {
     const { insertUpload } = await import("@/db/queries/uploads");
     const { characteriseUpload } = await import("@/worker/handlers/characterise-upload");
     const [ws] = await db.select().from(workspaces).where(eq(workspaces.slug, slug));
-    // Stored behind the route's back (as if the rules had changed since): the third line repeats the second.
+    // Stored behind the route's back (as if the rules had changed since): the third line starts before the second.
     const stored = await db.transaction((tx) =>
-      insertUpload(tx, { workspaceId: ws.id, userId: engineer, fileName: "old.csv", mapping: { ...mapping, durationUnit: "seconds", timeZone: "Z" }, bytes: enc(header + row(0) + row(0)), contentType: "text/csv" }),
+      insertUpload(tx, { workspaceId: ws.id, userId: engineer, fileName: "old.csv", mapping: { ...mapping, durationUnit: "seconds", timeZone: "Z" }, bytes: enc(header + row(5) + row(0)), contentType: "text/csv" }),
     );
     await characteriseUpload({ db, log: () => {} } as never, { uploadId: stored.id });
     const [after] = await db.select().from(uploads).where(eq(uploads.id, stored.id));
     expect(after.status).toBe("failed");
-    expect(after.error).toMatch(/could not be characterised: line 3: repeats line 2/);
+    expect(after.error).toMatch(/could not be characterised: line 3, column "call_start": .* is earlier than .* on line 2; sort the file by call_start$/);
     // A second delivery of the same job changes nothing.
     await characteriseUpload({ db, log: () => {} } as never, { uploadId: stored.id });
     expect((await db.select().from(uploads).where(eq(uploads.id, stored.id)))[0]).toEqual(after);
   });
+
+  it("stores a data limitation (no complete clock hour) as a permanent failure with its message, without retrying", async () => {
+    const { insertUpload } = await import("@/db/queries/uploads");
+    const { characteriseUpload } = await import("@/worker/handlers/characterise-upload");
+    const [ws] = await db.select().from(workspaces).where(eq(workspaces.slug, slug));
+    const stored = await db.transaction((tx) =>
+      insertUpload(tx, { workspaceId: ws.id, userId: engineer, fileName: "one.csv", mapping: { ...mapping, durationUnit: "seconds", timeZone: "Z" }, bytes: enc(header + row(0)), contentType: "text/csv" }),
+    );
+    // retries left, yet no throw: an input error is not retried
+    await characteriseUpload({ db, log: () => {} } as never, { uploadId: stored.id }, { retryCount: 0, retryLimit: 3 } as never);
+    const [after] = await db.select().from(uploads).where(eq(uploads.id, stored.id));
+    expect(after.status).toBe("failed");
+    expect(after.error).toMatch(/^The file could not be characterised: the measurement covers no complete clock hour/);
+  }, 60_000);
+
+  it("retries any other failure while pg-boss may, then stores it as a worker failure", async () => {
+    const { insertUpload } = await import("@/db/queries/uploads");
+    const { characteriseUpload } = await import("@/worker/handlers/characterise-upload");
+    const [ws] = await db.select().from(workspaces).where(eq(workspaces.slug, slug));
+    const stored = await db.transaction((tx) =>
+      insertUpload(tx, { workspaceId: ws.id, userId: engineer, fileName: "lost.csv", mapping: { ...mapping, durationUnit: "seconds", timeZone: "Z" }, bytes: enc(header + row(0)), contentType: "text/csv" }),
+    );
+    // A passing database fault while the stored file is read (the handler's second select), not the file's fault.
+    const flaky = () => {
+      let selects = 0;
+      return new Proxy(db, {
+        get: (target, key) =>
+          key === "select"
+            ? (...args: unknown[]) => {
+                if (++selects === 2) throw new Error("connection reset");
+                return (target.select as (...a: unknown[]) => unknown)(...args);
+              }
+            : Reflect.get(target, key),
+      });
+    };
+    await expect(characteriseUpload({ db: flaky(), log: () => {} } as never, { uploadId: stored.id }, { retryCount: 0, retryLimit: 3 } as never)).rejects.toThrow(/connection reset/);
+    expect((await db.select().from(uploads).where(eq(uploads.id, stored.id)))[0].status).toBe("characterising");
+    // the last try: stored as the worker's failure
+    await characteriseUpload({ db: flaky(), log: () => {} } as never, { uploadId: stored.id }, { retryCount: 3, retryLimit: 3 } as never);
+    const [after] = await db.select().from(uploads).where(eq(uploads.id, stored.id));
+    expect(after.status).toBe("failed");
+    expect(after.error).toMatch(/^The file could not be characterised: the worker failed \(/);
+  }, 60_000);
 
   it("answers 404 for an upload of another workspace or none", async () => {
     session.userId = engineer;

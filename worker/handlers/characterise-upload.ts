@@ -35,7 +35,9 @@ export async function characteriseUpload(ctx: WorkerContext, { uploadId }: Paylo
     // In a thread: a large file takes seconds, which must not stall this process's queue polling and chunks.
     outcome = { ok: true, value: await characteriseOffThread(data) };
   } catch (error) {
-    // The file was checked when it was uploaded, so a refusal here is a changed rule or a lost object: permanent.
+    // A MeasurementInputError is about the file itself (a changed rule, a lost object, or a data limitation such as
+    // no complete clock hour or no answered calls): permanent, stored with its message, no retries. Anything else
+    // may be passing (the thread, the database), so pg-boss retries it while it may.
     if (error instanceof MeasurementInputError) outcome = { ok: false, message: error.message };
     else if (job && job.retryCount < job.retryLimit) throw error; // pg-boss tries again
     else outcome = { ok: false, message: `the worker failed (${(error as Error).message})` };

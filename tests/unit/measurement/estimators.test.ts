@@ -153,7 +153,8 @@ describe("fitHoldingTimes: ranking and bootstrap p-values", () => {
     expect(byName.lognormal.ksPValue!).toBeGreaterThan(0.01);
     expect(byName.lognormal.adPValue!).toBeGreaterThan(0.01);
     expect(byName.exponential.ksPValue).toBe(1 / 100);
-    expect(fit.pValueMethod).toMatch(/parametric bootstrap, 99 samples of 2000 values \(√m·D compared with √n·D\).*not valid with estimated parameters/);
+    // written to 0.1 s: the observed statistics are taken on a subsample of the bootstrap size
+    expect(fit.pValueMethod).toMatch(/parametric bootstrap, 99 samples of 2000 values compared with a random subsample of 2000 of the 3000 values, draws rounded to the recording resolution 0.1.*not valid with estimated parameters/);
   });
   it("mean and cv are the sample's (simple-statistics sampleVariance)", () => {
     expect(fit.mean).toBeCloseTo(ssMean(durations), 10);
@@ -162,5 +163,56 @@ describe("fitHoldingTimes: ranking and bootstrap p-values", () => {
   it("the same seed gives the same p-values", () => {
     const again = fitHoldingTimes(durations, { replicates: 99 });
     expect(again.fits.map((f) => f.ksPValue)).toEqual(fit.fits.map((f) => f.ksPValue));
+  });
+});
+
+describe("fitHoldingTimes: durations recorded at a resolution (whole seconds)", () => {
+  /** exponential (mean 180 s) or lognormal (mean 180 s, cv 2) durations rounded to whole seconds, zeros removed */
+  function wholeSeconds(seed: string, n: number, law: "exponential" | "lognormal") {
+    const u = uniforms(seed);
+    const z = normals(uniforms(`${seed}:normal`));
+    const sigma = Math.sqrt(Math.log(1 + 2 ** 2));
+    const out: number[] = [];
+    for (let i = 0; i < n; i++) {
+      const x = Math.round(law === "exponential" ? -180 * Math.log(u()) : Math.exp(Math.log(180) - sigma ** 2 / 2 + sigma * z()));
+      if (x > 0) out.push(x);
+    }
+    return out;
+  }
+  it("68 000 exponential durations in whole seconds: the exponential law is not rejected (same-size comparison, draws rounded)", () => {
+    const x = wholeSeconds("whole-seconds-exp", 68_000, "exponential");
+    expect(x.length).toBeGreaterThan(60_000);
+    const fit = fitHoldingTimes(x, { replicates: 99 });
+    expect(fit.resolution).toBe(1);
+    expect(fit.pValueMethod).toMatch(/compared with a random subsample of 2000 of the \d+ values, draws rounded to the recording resolution 1,/);
+    const exp = fit.fits.find((f) => f.family === "exponential")!;
+    // under the true law the bootstrap p is uniform on {1/100, …, 1}: P(p ≤ 0.01) = 0.01 (the old √m·D vs √n·D comparison gave 1/(B+1) here)
+    expect(exp.ksPValue!).toBeGreaterThan(0.01);
+    expect(exp.adPValue!).toBeGreaterThan(0.01);
+  });
+  it("lognormal durations (cv 2) in whole seconds are still rejected as exponential, p = 1/(B+1)", () => {
+    const fit = fitHoldingTimes(wholeSeconds("whole-seconds-lognormal", 20_000, "lognormal"), { replicates: 99 });
+    expect(fit.resolution).toBe(1);
+    const exp = fit.fits.find((f) => f.family === "exponential")!;
+    expect(exp.ksPValue).toBe(1 / 100);
+    expect(exp.adPValue).toBe(1 / 100);
+  });
+  it("finds grids other than decimal ones from the ties (5 s, 0.5 s), and none in continuous values", () => {
+    const u = uniforms("grids");
+    const draw = (grid: number) => Float64Array.from({ length: 500 }, () => Math.max(grid, Math.round((-180 * Math.log(u())) / grid) * grid));
+    expect(writtenResolution(draw(5))).toBe(5);
+    expect(writtenResolution(draw(0.5))).toBe(0.5);
+    expect(writtenResolution(Float64Array.from({ length: 500 }, () => -180 * Math.log(u())))).toBe(0);
+  });
+  it("continuous durations keep the scaled comparison and the p-values they had before the same-size change (Weibull k = 1.4, 3 000 values)", () => {
+    const u = uniforms("continuous-weibull");
+    const x = Array.from({ length: 3000 }, () => 120 * (-Math.log(1 - u())) ** (1 / 1.4));
+    const fit = fitHoldingTimes(x, { replicates: 99 });
+    expect(fit.resolution).toBe(0);
+    expect(fit.pValueMethod).toMatch(/99 samples of 2000 values \(√m·D compared with √n·D\), draws rounded to no resolution/);
+    // values recorded from the previous implementation with the same seed
+    const byName = Object.fromEntries(fit.fits.map((f) => [f.family, f]));
+    expect([byName.weibull.ksPValue, byName.weibull.adPValue]).toEqual([0.87, 0.94]);
+    for (const name of ["gamma", "lognormal", "exponential"]) expect([byName[name].ksPValue, byName[name].adPValue]).toEqual([0.01, 0.01]);
   });
 });
