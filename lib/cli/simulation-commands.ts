@@ -203,6 +203,7 @@ export function runLengthTable(plan: RunLengthPlan, precision: number, threads: 
     `  ${plan.lowerBound ? "at least" : "about"} ${plan.calls} calls (${plan.callsPerReplication} per replication x ${plan.replications}), about ${seconds} s on ${threads} thread${threads > 1 ? "s" : ""}`,
     `  call congestion about ${fmt(plan.callCongestion)}; variance per call ${fmt(plan.varianceRatio)} x independent sampling`,
     `  method: ${plan.method}`,
+    ...(plan.lengthened ? [`  replications lengthened: ${plan.lengthened}`] : []),
   ].join("\n");
 }
 

@@ -1,5 +1,5 @@
 // Issue #11, section 2: run-length planning (lib/simulation/run-length.ts) and the `plan` command.
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
@@ -8,7 +8,7 @@ import { simulationCommands } from "../../../lib/cli/simulation-commands";
 import { erlangTimeCongestionVariance, planRunLength } from "../../../lib/simulation/run-length";
 import { parseScenario, type ScenarioInput } from "../../../lib/simulation/node";
 import { erlangB } from "../../../lib/teletraffic";
-import { simulateReference } from "./helpers";
+import { simulate, simulateReference } from "./helpers";
 
 const mm = (servers: number, rate: number, run: object): ScenarioInput => ({ servers, arrivals: { process: "poisson", rate }, holding: { law: "exponential", mean: 1 }, run: { seed: 9, replications: 10, ...run } as ScenarioInput["run"] });
 
@@ -64,6 +64,34 @@ describe("planRunLength", () => {
     const plan = planRunLength(s, { relativeHalfWidth: 0.1 });
     expect(plan.lowerBound).toBe(true);
     expect(plan.method).toMatch(/saw no blocking/);
+  });
+});
+
+describe("a planned run is long enough for the engine's own warnings", () => {
+  // The field-crew example (tests' copy of lib/simulation/examples/field-crew-radio.json): finite
+  // sources with a long relaxation time and lognormal holding; 5 % needs only ~2 600 calls per
+  // replication, fewer than 100 relaxation times and too few draws to see the law's tail.
+  const example = JSON.parse(readFileSync(path.join(__dirname, "../../../lib/simulation/examples/field-crew-radio.json"), "utf8")) as ScenarioInput;
+
+  it("lengthens the replications and says why; a run at the planned length carries neither run-too-short nor heavy-tail", async () => {
+    const s = parseScenario(example);
+    const plan = planRunLength(s, { relativeHalfWidth: 0.05 });
+    expect(plan.lengthened).toMatch(/^each replication needs at least \d+ calls for .*; the precision alone needs \d+ in all$/);
+    expect(plan.calls).toBe(plan.callsPerReplication * plan.replications);
+    for (const seed of [1, 2, 3]) {
+      const result = await simulate({ ...example, run: { ...example.run, seed, replications: plan.replications, callsPerReplication: plan.callsPerReplication } });
+      expect(result.warnings.map((w) => w.code)).not.toContain("run-too-short");
+      expect(result.warnings.map((w) => w.code)).not.toContain("heavy-tail");
+    }
+    // Without the floor (the precision's own length) the same runs are warned about: the floor is needed.
+    const short = Math.ceil(Number(plan.lengthened!.match(/needs (\d+) in all$/)![1]) / plan.replications);
+    const warned = await simulate({ ...example, run: { ...example.run, seed: 1, replications: plan.replications, callsPerReplication: short } });
+    expect(warned.warnings.map((w) => w.code)).toEqual(expect.arrayContaining(["run-too-short", "heavy-tail"]));
+  });
+
+  it("leaves a plan alone when the precision already needs long replications", () => {
+    const plan = planRunLength(parseScenario(mm(30, 20, { callsPerReplication: 1_000 })), { relativeHalfWidth: 0.05 });
+    expect(plan.lengthened).toBeUndefined();
   });
 });
 
