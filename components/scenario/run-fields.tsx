@@ -1,7 +1,9 @@
 "use client";
 
 import { useFormContext, useWatch } from "react-hook-form";
-import { Field, Select } from "@/components/ui";
+import { Field, Select, Spinner } from "@/components/ui";
+import { errorMessage } from "@/lib/client/api";
+import { useRunLengthPlan } from "@/lib/client/queries/run-length";
 import type { ScenarioFormValues } from "@/lib/client/scenario-form";
 import { NumberField, OptionalBlock } from "./fields";
 
@@ -10,7 +12,27 @@ const run = "scenario.run";
 type Length = "calls" | "horizon";
 type Warmup = "none" | "calls" | "time" | "auto";
 
-export function RunFields() {
+/** "About N calls, about T s" for the requested precision, before the run (run-length.ts). */
+function RunLengthEstimate({ scenario, relativeHalfWidth }: { scenario: unknown | null; relativeHalfWidth: number | undefined }) {
+  const query = useRunLengthPlan(scenario, relativeHalfWidth);
+  const plan = query.data;
+  if (scenario === null) return <p className="text-sm text-basin-700">Fix the scenario's fields to see how long this precision takes.</p>;
+  if (query.isError) return <p className="text-sm text-basin-700">No estimate: {errorMessage(query.error)}</p>;
+  if (!plan) return <p className="flex items-center gap-2 text-sm text-basin-700"><Spinner /> Estimating the run length…</p>;
+  const seconds = plan.seconds < 1 ? "under a second" : `about ${Math.ceil(plan.seconds)} s`;
+  return (
+    <div className="text-sm text-basin-800" data-testid="run-length-plan" aria-live="polite">
+      <p>
+        {plan.lowerBound ? "At least" : "About"} {plan.calls.toLocaleString("en")} calls ({plan.callsPerReplication.toLocaleString("en")} per replication × {plan.replications}), {seconds} on one core{query.isFetching ? " (updating…)" : ""}.
+      </p>
+      <p className="text-xs text-basin-600">
+        Call congestion about {Number(plan.callCongestion.toPrecision(3))}; from the {plan.method}.{plan.lengthened ? ` Replications lengthened: ${plan.lengthened}.` : ""}
+      </p>
+    </div>
+  );
+}
+
+export function RunFields({ scenario = null }: { scenario?: unknown | null }) {
   const { setValue } = useFormContext<ScenarioFormValues>();
   const values = useWatch<ScenarioFormValues, "scenario.run">({ name: run }) ?? {};
   const length: Length = values.horizon !== undefined ? "horizon" : "calls";
@@ -65,6 +87,7 @@ export function RunFields() {
           <NumberField name={`${run}.precision.relativeHalfWidth`} label="Relative half-width" hint="0.05 = the interval is ±5 % of the estimate." />
           <NumberField name={`${run}.precision.maxCalls`} label="Call budget" unit="calls" step="1" />
         </div>
+        <RunLengthEstimate scenario={scenario} relativeHalfWidth={values.precision?.relativeHalfWidth} />
       </OptionalBlock>
       <NumberField
         name={`${run}.chunkReplications`}

@@ -216,7 +216,7 @@ function EditorForm({ workspace, scenarioId, initial, canEdit, canRun, onImport 
               <CardTitle as="h2">Run settings</CardTitle>
             </CardHeader>
             <CardBody>
-              <RunFields />
+              <RunFields scenario={valid} />
             </CardBody>
           </Card>
         </fieldset>

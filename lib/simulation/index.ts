@@ -12,6 +12,6 @@ export { referencesFor, referenceSchema, offeredTraffic, type Reference } from "
 export { ratioInterval, mser5, type Interval } from "./estimators";
 export { Random, SUBSTREAM } from "./random";
 export { LawSampler, BatchSizeSampler } from "./laws";
-export { planRunLength, erlangTimeCongestionVariance, type RunLengthPlan, type RunLengthOptions } from "./run-length";
+export { planRunLength, planRunLengthInSlices, erlangTimeCongestionVariance, type RunLengthPlan, type RunLengthOptions } from "./run-length";
 export { callCongestionEstimate, controlledRatio } from "./variance-reduction";
 export { relaxationTime, unseenMeanShare } from "./diagnostics";

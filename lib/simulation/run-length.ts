@@ -1,7 +1,8 @@
 import tQuantile from "@stdlib/stats-base-dists-t-quantile";
 import { aggregateReplications } from "./aggregate";
 import { RELAXATION_TIMES_PER_REPLICATION, relaxationTime, UNSEEN_SHARE_LIMIT, unseenMeanShare } from "./diagnostics";
-import { runReplication } from "./replication";
+import { ReplicationJob, runReplication, SimulationCancelledError } from "./replication";
+import type { ReplicationStats } from "./engine";
 import { buildResult } from "./result";
 import { freshCallRate, lawMean, type Law, type Scenario } from "./scenario";
 
@@ -168,26 +169,31 @@ function finish(scenario: Scenario, options: RunLengthOptions, b: number, varian
   };
 }
 
+/** The Erlang model's plan from the closed-form variance; undefined elsewhere (a pilot is needed). */
+function erlangPlan(scenario: Scenario, options: RunLengthOptions): RunLengthPlan | undefined {
+  if (!(isErlangModel(scenario) && scenario.arrivals.process === "poisson")) return undefined;
+  const rate = scenario.arrivals.rate;
+  const { blocking, variance } = erlangTimeCongestionVariance(scenario.servers, rate, lawMean(scenario.holding));
+  if (!(blocking > 0)) return undefined;
+  return finish(scenario, options, blocking, variance * rate, "asymptotic variance of the time-congestion estimator, M/M/N/N birth-death formula (Whitt 1992; Srikant & Whitt 1996)", false, rate);
+}
+
 /** About how many calls and seconds a run of this scenario needs for the requested precision. */
 export function planRunLength(scenario: Scenario, options: RunLengthOptions): RunLengthPlan {
-  if (isErlangModel(scenario) && scenario.arrivals.process === "poisson") {
-    const rate = scenario.arrivals.rate;
-    const { blocking, variance } = erlangTimeCongestionVariance(scenario.servers, rate, lawMean(scenario.holding));
-    if (blocking > 0)
-      return finish(scenario, options, blocking, variance * rate, "asymptotic variance of the time-congestion estimator, M/M/N/N birth-death formula (Whitt 1992; Srikant & Whitt 1996)", false, rate);
-  }
-  return pilotPlan(scenario, options);
+  return erlangPlan(scenario, options) ?? pilotPlan(scenario, options);
 }
 
 /** The pilot: fixed replications of the scenario, long enough for its relaxation time where affordable. */
-function pilotPlan(scenario: Scenario, options: RunLengthOptions): RunLengthPlan {
+function pilotScenario(scenario: Scenario): { pilot: Scenario; perReplication: number; wanted: number } {
   const rate = freshCallRate(scenario.arrivals, lawMean(scenario.holding));
   const tau = relaxationTime(scenario).time;
   const wanted = Number.isFinite(tau) ? 100 * tau * rate : PILOT_MAX_CALLS_PER_REPLICATION;
   const perReplication = Math.round(Math.min(PILOT_MAX_CALLS_PER_REPLICATION, Math.max(PILOT_CALLS, wanted)));
   const { precision: _precision, horizon: _horizon, callsPerReplication: _calls, chunkReplications: _chunk, ...run } = scenario.run;
-  const pilot: Scenario = { ...scenario, run: { ...run, replications: PILOT_REPLICATIONS, callsPerReplication: perReplication } };
-  const stats = Array.from({ length: PILOT_REPLICATIONS }, (_, i) => runReplication(pilot, i));
+  return { pilot: { ...scenario, run: { ...run, replications: PILOT_REPLICATIONS, callsPerReplication: perReplication } }, perReplication, wanted };
+}
+
+function planFromPilot(scenario: Scenario, options: RunLengthOptions, { pilot, perReplication, wanted }: ReturnType<typeof pilotScenario>, stats: ReplicationStats[]): RunLengthPlan {
   const result = buildResult(pilot, aggregateReplications(stats, pilot.servers), []);
   const cc = result.callCongestion;
   // The fresh-call rate the pilot saw (for finite sources it depends on how many are busy).
@@ -200,4 +206,36 @@ function pilotPlan(scenario: Scenario, options: RunLengthOptions): RunLengthPlan
   }
   const variancePerCall = cc.standardError ** 2 * result.calls;
   return finish(scenario, options, cc.estimate, variancePerCall, `pilot of ${PILOT_REPLICATIONS} x ${perReplication} calls (${cc.method ?? "direct count"})${note}`, false, measuredRate);
+}
+
+function pilotPlan(scenario: Scenario, options: RunLengthOptions): RunLengthPlan {
+  const setup = pilotScenario(scenario);
+  const stats = Array.from({ length: PILOT_REPLICATIONS }, (_, i) => runReplication(setup.pilot, i));
+  return planFromPilot(scenario, options, setup, stats);
+}
+
+/**
+ * planRunLength for a browser page: the same answer, with the pilot run in slices of `sliceEvents`
+ * and `pause()` awaited between them (e.g. a zero timeout), so the page stays responsive; `signal`
+ * stops it between slices with SimulationCancelledError.
+ */
+export async function planRunLengthInSlices(
+  scenario: Scenario,
+  options: RunLengthOptions,
+  { pause, signal, sliceEvents = 1 << 15 }: { pause: () => Promise<void>; signal?: AbortSignal; sliceEvents?: number },
+): Promise<RunLengthPlan> {
+  const plan = erlangPlan(scenario, options);
+  if (plan) return plan;
+  const setup = pilotScenario(scenario);
+  const stats: ReplicationStats[] = [];
+  for (let i = 0; i < PILOT_REPLICATIONS; i++) {
+    const job = new ReplicationJob(setup.pilot, i);
+    for (;;) {
+      if (signal?.aborted) throw new SimulationCancelledError();
+      if (job.advance(sliceEvents)) break;
+      await pause();
+    }
+    stats.push(job.stats());
+  }
+  return planFromPilot(scenario, options, setup, stats);
 }

@@ -33,6 +33,10 @@ test("engineer builds an on-off scenario, runs it and reads the verdict", async 
   await page.getByRole("spinbutton", { name: "Replications", exact: true }).fill("4");
   await page.getByLabel("Calls per replication").fill("5000");
   await page.getByLabel("Warm-up calls").fill("500");
+  // Before running: how long a ±5 % answer would take (run-length planning, a pilot run in the browser).
+  await page.getByLabel("Stop at a target precision").check();
+  await expect(page.getByTestId("run-length-plan")).toContainText(/About [\d,]+ calls \([\d,]+ per replication × 4\), .* on one core\./, { timeout: 30_000 });
+  await page.getByLabel("Stop at a target precision").uncheck();
   await screenshot(page, "scenario-editor");
 
   await page.getByRole("button", { name: "Save and run" }).click();

@@ -5,7 +5,8 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { CliUsageError } from "../../../lib/cli/command";
 import { simulationCommands } from "../../../lib/cli/simulation-commands";
-import { erlangTimeCongestionVariance, planRunLength } from "../../../lib/simulation/run-length";
+import { erlangTimeCongestionVariance, planRunLength, planRunLengthInSlices } from "../../../lib/simulation/run-length";
+import { SimulationCancelledError } from "../../../lib/simulation/replication";
 import { parseScenario, type ScenarioInput } from "../../../lib/simulation/node";
 import { erlangB } from "../../../lib/teletraffic";
 import { simulate, simulateReference } from "./helpers";
@@ -92,6 +93,31 @@ describe("a planned run is long enough for the engine's own warnings", () => {
   it("leaves a plan alone when the precision already needs long replications", () => {
     const plan = planRunLength(parseScenario(mm(30, 20, { callsPerReplication: 1_000 })), { relativeHalfWidth: 0.05 });
     expect(plan.lengthened).toBeUndefined();
+  });
+});
+
+describe("planRunLengthInSlices (the editor's planner, a pilot in slices)", () => {
+  const onOff = parseScenario({ servers: 10, arrivals: { process: "on-off", onRate: 14, meanOn: 1, meanOff: 1 }, holding: { law: "exponential", mean: 1 }, run: { seed: 2, replications: 10, callsPerReplication: 1_000 } });
+  const pause = () => new Promise<void>((resolve) => setTimeout(resolve, 0));
+
+  it("gives the same plan as planRunLength, pausing between slices", async () => {
+    let pauses = 0;
+    const plan = await planRunLengthInSlices(onOff, { relativeHalfWidth: 0.05 }, { pause: () => (pauses++, pause()), sliceEvents: 4096 });
+    expect(plan).toEqual(planRunLength(onOff, { relativeHalfWidth: 0.05 }));
+    expect(pauses).toBeGreaterThan(10);
+    // The Erlang model needs no pilot: the closed form, no pause.
+    const erlang = parseScenario(mm(30, 20, { callsPerReplication: 1_000 }));
+    let erlangPauses = 0;
+    expect(await planRunLengthInSlices(erlang, { relativeHalfWidth: 0.05 }, { pause: () => (erlangPauses++, pause()) })).toEqual(planRunLength(erlang, { relativeHalfWidth: 0.05 }));
+    expect(erlangPauses).toBe(0);
+  });
+
+  it("stops between slices when its signal is aborted", async () => {
+    const controller = new AbortController();
+    let pauses = 0;
+    const planning = planRunLengthInSlices(onOff, { relativeHalfWidth: 0.05 }, { pause: () => (++pauses === 3 && controller.abort(), pause()), signal: controller.signal, sliceEvents: 4096 });
+    await expect(planning).rejects.toBeInstanceOf(SimulationCancelledError);
+    expect(pauses).toBe(3);
   });
 });
 
