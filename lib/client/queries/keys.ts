@@ -11,6 +11,8 @@ export const queryKeys = {
   allSweeps: (ws: string) => ["ws", ws, "sweeps"] as const,
   sweep: (ws: string, id: string) => ["ws", ws, "sweeps", "one", id] as const,
   references: (ws: string, scenario: unknown) => ["ws", ws, "references", scenario] as const,
+  /** Computed in the browser from the scenario alone, so not under a workspace. */
+  runLengthPlan: (scenarioAndPrecision: string | null) => ["run-length-plan", scenarioAndPrecision] as const,
   tokens: (ws: string) => ["ws", ws, "tokens"] as const,
 };
 

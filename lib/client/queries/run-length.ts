@@ -2,6 +2,7 @@
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import { parseScenario, planRunLengthInSlices } from "@/lib/simulation";
+import { queryKeys } from "./keys";
 import { useDebounced } from "./references";
 
 /** A macrotask break between pilot slices, so typing and painting go on while the pilot runs. */
@@ -17,7 +18,7 @@ export function useRunLengthPlan(scenario: unknown | null, relativeHalfWidth: nu
   const ready = scenario !== null && typeof relativeHalfWidth === "number" && relativeHalfWidth > 0 && relativeHalfWidth < 1;
   const settled = useDebounced(ready ? JSON.stringify([scenario, relativeHalfWidth]) : null, debounceMs);
   return useQuery({
-    queryKey: ["run-length-plan", settled],
+    queryKey: queryKeys.runLengthPlan(settled),
     queryFn: ({ signal }) => {
       const [input, r] = JSON.parse(settled!) as [unknown, number];
       return planRunLengthInSlices(parseScenario(input), { relativeHalfWidth: r }, { pause, signal });
