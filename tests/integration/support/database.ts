@@ -19,8 +19,22 @@ export async function createScratchDatabase(): Promise<{ url: string; drop: () =
     drop: async () => {
       const client = new Client({ connectionString: base });
       await client.connect();
-      await client.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
-      await client.end();
+      try {
+        // Why the retry: on PostgreSQL 15, WITH (FORCE) run by a non-superuser refuses to terminate an
+        // autovacuum worker that happens to be vacuuming the scratch database ("must be a member of the role
+        // whose process is being terminated", SQLSTATE 42501); the worker is done within moments.
+        for (let attempt = 1; ; attempt++) {
+          try {
+            await client.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
+            break;
+          } catch (error) {
+            if ((error as { code?: string }).code !== "42501" || attempt >= 10) throw error;
+            await new Promise((resolve) => setTimeout(resolve, 200 * attempt));
+          }
+        }
+      } finally {
+        await client.end();
+      }
     },
   };
 }
